@@ -1,0 +1,219 @@
+// Command telegrapher is a frequency and transient line-response analyser for overhead
+// transmission lines: line constants, harmonic scans, energisation and switching
+// overvoltages, and loading against the surge-impedance loading, driven by one study
+// file.
+//
+// Usage:
+//
+//	telegrapher COMMAND [flags] [STUDY]
+//
+// Run `telegrapher help` for the list of commands.
+package main
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"sort"
+	"strings"
+)
+
+// version is set at build time with -ldflags "-X main.version=..."; "dev" otherwise.
+var version = "dev"
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+}
+
+// command is one entry of the command table.
+type command struct {
+	name  string
+	args  string // the usage line after the command name
+	short string // one line for the list of commands
+	long  string // paragraphs for `help COMMAND`
+	// flags declares the command's flags on fs and returns the function that runs it
+	// with the positional arguments.
+	flags func(fs *flag.FlagSet, stdout, stderr io.Writer) func(args []string) error
+}
+
+// commands is the command table; each command lives in its own file and registers
+// itself here through init.
+var commands = map[string]*command{}
+
+func register(c *command) { commands[c.name] = c }
+
+// aliases maps accepted alternative spellings to command names.
+var aliases = map[string]string{"energize": "energise"}
+
+// usageError is bad usage or bad input: exit status 2.
+type usageError struct{ msg string }
+
+func (e *usageError) Error() string { return e.msg }
+
+// usagef returns a usageError.
+func usagef(format string, a ...any) error { return &usageError{fmt.Sprintf(format, a...)} }
+
+// run is the whole CLI: it returns the exit status (0 success, 2 bad usage or input,
+// 1 any other failure) and never panics on user input.
+func run(args []string, stdout, stderr io.Writer) (status int) {
+	defer func() {
+		if r := recover(); r != nil {
+			fmt.Fprintf(stderr, "telegrapher: internal error (a bug, please report it): %v\n", r)
+			status = 1
+		}
+	}()
+	if len(args) == 0 {
+		printCommands(stderr)
+		return 2
+	}
+	name := args[0]
+	if a, ok := aliases[name]; ok {
+		name = a
+	}
+	switch name {
+	case "help", "-h", "-help", "--help":
+		return help(args[1:], stdout, stderr)
+	case "version", "--version", "-version":
+		fmt.Fprintf(stdout, "telegrapher %s\n", version)
+		return 0
+	}
+	c, ok := commands[name]
+	if !ok {
+		fmt.Fprintf(stderr, "telegrapher: unknown command %q%s\nRun 'telegrapher help' for the list of commands.\n", args[0], suggestCommand(args[0]))
+		return 2
+	}
+	fs := flag.NewFlagSet(c.name, flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	do := c.flags(fs, stdout, stderr)
+	positional, err := parseInterleaved(fs, args[1:])
+	if err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			commandHelp(c, stdout)
+			return 0
+		}
+		fmt.Fprintf(stderr, "telegrapher %s: %v\nusage: telegrapher %s %s\n", c.name, err, c.name, c.args)
+		return 2
+	}
+	if err := do(positional); err != nil {
+		fmt.Fprintln(stderr, err.Error())
+		var ue *usageError
+		if errors.As(err, &ue) || isInputError(err) {
+			return 2
+		}
+		return 1
+	}
+	return 0
+}
+
+// isInputError reports whether err is a problem with the user's input (set by the
+// input-error types of the study and report packages through this hook).
+var isInputError = func(err error) bool { return false }
+
+// parseInterleaved parses flags that may stand before or after the positional
+// arguments (the standard flag package stops at the first non-flag). "--" ends flags.
+func parseInterleaved(fs *flag.FlagSet, args []string) ([]string, error) {
+	var positional []string
+	for {
+		if err := fs.Parse(args); err != nil {
+			return nil, err
+		}
+		rest := fs.Args()
+		if len(rest) == 0 {
+			return positional, nil
+		}
+		// fs.Parse stops at "--" too; the flag package drops it, so detect it.
+		consumed := len(args) - len(rest)
+		if consumed > 0 && args[consumed-1] == "--" {
+			return append(positional, rest...), nil
+		}
+		positional = append(positional, rest[0])
+		args = rest[1:]
+	}
+}
+
+func printCommands(w io.Writer) {
+	fmt.Fprintln(w, "telegrapher: frequency and transient line-response analyser for overhead lines")
+	fmt.Fprintln(w, "\nusage: telegrapher COMMAND [flags] [STUDY]\n\ncommands:")
+	names := make([]string, 0, len(commands))
+	for n := range commands {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	for _, n := range names {
+		fmt.Fprintf(w, "  %-10s %s\n", n, commands[n].short)
+	}
+	fmt.Fprintf(w, "  %-10s %s\n  %-10s %s\n", "help", "help on a command", "version", "print the version")
+	fmt.Fprintln(w, "\nRun 'telegrapher help COMMAND' for a command's flags.")
+	fmt.Fprintln(w, "\n"+Caution)
+}
+
+func help(args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		printCommands(stdout)
+		return 0
+	}
+	name := args[0]
+	if a, ok := aliases[name]; ok {
+		name = a
+	}
+	c, ok := commands[name]
+	if !ok {
+		fmt.Fprintf(stderr, "telegrapher help: unknown command %q%s\n", args[0], suggestCommand(args[0]))
+		return 2
+	}
+	commandHelp(c, stdout)
+	return 0
+}
+
+func commandHelp(c *command, w io.Writer) {
+	fmt.Fprintf(w, "usage: telegrapher %s %s\n\n%s\n", c.name, c.args, strings.TrimSpace(c.long))
+	fs := flag.NewFlagSet(c.name, flag.ContinueOnError)
+	c.flags(fs, io.Discard, io.Discard)
+	has := false
+	fs.VisitAll(func(*flag.Flag) { has = true })
+	if has {
+		fmt.Fprintln(w, "\nflags:")
+		fs.SetOutput(w)
+		fs.PrintDefaults()
+	}
+}
+
+func suggestCommand(s string) string {
+	best, bestD := "", 3
+	for n := range commands {
+		if d := editDistance(s, n); d < bestD {
+			best, bestD = n, d
+		}
+	}
+	if best == "" {
+		return ""
+	}
+	return fmt.Sprintf(" (did you mean %q?)", best)
+}
+
+// editDistance is the Levenshtein distance between a and b.
+func editDistance(a, b string) int {
+	prev := make([]int, len(b)+1)
+	cur := make([]int, len(b)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		cur[0] = i
+		for j := 1; j <= len(b); j++ {
+			cost := 1
+			if a[i-1] == b[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(b)]
+}
+
+// Caution is the safety note every report and the help text carry.
+const Caution = "Caution: telegrapher screens and plans; it does not certify. Its results depend on the data given " +
+	"and do not replace a detailed study, the applicable standards and codes, or the judgement of a licensed engineer."

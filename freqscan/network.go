@@ -1,0 +1,173 @@
+package freqscan
+
+import (
+	"github.com/telegrapher/telegrapher/propagation"
+)
+
+// Source is the network behind the sending bus: an EMF behind a series resistance R
+// (ohm, constant with frequency) and inductance L (H). R = L = 0 is an ideal source.
+type Source struct {
+	R, L float64
+}
+
+// Impedance returns R + sL in ohm.
+func (src Source) Impedance(s complex128) complex128 {
+	return complex(src.R, 0) + s*complex(src.L, 0)
+}
+
+// Ideal reports whether the source has no impedance.
+func (src Source) Ideal() bool { return src.R == 0 && src.L == 0 }
+
+// End names a line end.
+type End int
+
+// The two ends of the line.
+const (
+	Sending End = iota
+	Receiving
+)
+
+func (e End) String() string {
+	if e == Sending {
+		return "sending"
+	}
+	return "receiving"
+}
+
+// Shunt is a shunt element at a line end: a reactor (L > 0) or a capacitor (C > 0),
+// with an optional resistance R in series (ohm, constant). Line-connected shunts are
+// switched with the line; bus-connected ones stay with the bus.
+type Shunt struct {
+	Name    string
+	End     End
+	OnLine  bool    // true: line-connected; false: bus-connected
+	R, L, C float64 // ohm, H, F; exactly one of L and C is > 0
+}
+
+// Impedance returns the shunt's impedance R + sL or R + 1/(sC) in ohm.
+func (sh Shunt) Impedance(s complex128) complex128 {
+	if sh.L > 0 {
+		return complex(sh.R, 0) + s*complex(sh.L, 0)
+	}
+	return complex(sh.R, 0) + 1/(s*complex(sh.C, 0))
+}
+
+// Admittance returns 1/Impedance in siemens.
+func (sh Shunt) Admittance(s complex128) complex128 {
+	if sh.L > 0 {
+		return 1 / (complex(sh.R, 0) + s*complex(sh.L, 0))
+	}
+	// sC / (1 + sRC) avoids 1/(sC) at small s.
+	sc := s * complex(sh.C, 0)
+	return sc / (1 + sc*complex(sh.R, 0))
+}
+
+// Load is a constant-impedance load at the receiving bus: a resistance R in parallel
+// with an inductance L or a capacitance C. A zero field is an absent branch; the zero
+// Load is no load.
+type Load struct {
+	R, L, C float64 // ohm, H, F
+}
+
+// Admittance returns the load admittance in siemens.
+func (ld Load) Admittance(s complex128) complex128 {
+	var y complex128
+	if ld.R > 0 {
+		y += complex(1/ld.R, 0)
+	}
+	if ld.L > 0 {
+		y += 1 / (s * complex(ld.L, 0))
+	}
+	if ld.C > 0 {
+		y += s * complex(ld.C, 0)
+	}
+	return y
+}
+
+// Network is the circuit around the line, for one sequence. With FarEndOpen the
+// receiving bus-connected shunts and the load are disconnected (the line energised
+// from the sending end, far end open); line-connected shunts stay.
+type Network struct {
+	Source     Source
+	Line       propagation.Cascade
+	Shunts     []Shunt
+	Load       Load
+	FarEndOpen bool
+}
+
+// Energising returns a copy of n with the far end open, as for energisation.
+func (n Network) Energising() Network {
+	n.FarEndOpen = true
+	return n
+}
+
+// Response is the network's response at one complex frequency. Voltage ratios are
+// complex; impedances in ohm.
+type Response struct {
+	VrE        complex128 // Vr/E: receiving-end voltage over source EMF
+	VrVs       complex128 // Vr/Vs: receiving over sending-end voltage
+	VsE        complex128 // Vs/E
+	ZIn        complex128 // into the line from the sending bus, with line-connected shunts and termination
+	ZSending   complex128 // driving-point impedance at the sending bus, whole network in place
+	ZReceiving complex128 // driving-point impedance at the receiving bus, whole network in place
+}
+
+// Admittances returns the total shunt admittance (S) at each end at s, split into
+// line-connected and bus-connected, with the load included in the receiving bus part
+// unless the far end is open (then the receiving bus part is zero).
+func (n Network) Admittances(s complex128) (sendLine, sendBus, recvLine, recvBus complex128) {
+	for _, sh := range n.Shunts {
+		y := sh.Admittance(s)
+		switch {
+		case sh.End == Sending && sh.OnLine:
+			sendLine += y
+		case sh.End == Sending:
+			sendBus += y
+		case sh.OnLine:
+			recvLine += y
+		case !n.FarEndOpen:
+			recvBus += y
+		}
+	}
+	if !n.FarEndOpen {
+		recvBus += n.Load.Admittance(s)
+	}
+	return
+}
+
+// At evaluates the network at the complex frequency s (rad/s), s != 0.
+//
+// With the line's exact two-port (A, B, C, D), the receiving-end termination
+// admittance Yr and the sending line-connected shunts Ysl:
+//
+//	N = A + B·Yr,  M = (C + D·Yr) + Ysl·N
+//	Vr/Vs = 1/N,  Zin = N/M,  Vs/E = N / (N + Zsrc·(M + Ysb·N))
+//
+// which stays finite for an ideal source and for a lossless line at resonance except
+// where the true value is unbounded. The driving-point impedance at the receiving
+// bus uses the line's output admittance with the sending side terminated.
+func (n Network) At(s complex128) Response {
+	p := n.Line.Exact(s)
+	return n.respond(s, p)
+}
+
+func (n Network) respond(s complex128, p propagation.TwoPort) Response {
+	ysl, ysb, yrl, yrb := n.Admittances(s)
+	yr := yrl + yrb
+	zsrc := n.Source.Impedance(s)
+	num := p.A + p.B*yr
+	den := (p.C + p.D*yr) + ysl*num
+	vsE := num / (num + zsrc*(den+ysb*num))
+	vrVs := p.VoltageRatio(yr)
+	var r Response
+	r.VrVs = vrVs
+	r.VsE = vsE
+	r.VrE = vsE * vrVs
+	r.ZIn = num / den
+	r.ZSending = zsrc * vsE
+	// Sending side seen from the line: source in parallel with all sending shunts.
+	zs := zsrc / (1 + zsrc*(ysl+ysb))
+	nOut := p.D*zs + p.B
+	r.ZReceiving = nOut / ((p.C*zs + p.A) + yr*nOut)
+	return r
+}
