@@ -1,0 +1,674 @@
+package main
+
+// The energise command: the energisation transient of the open-ended line, all poles
+// closed together (positive-sequence equivalent).
+//
+//	computeEnergise(st, method) (energiseResult, error)  the waveforms by one method
+//	                            (lattice, bergeron or laplace; "" = the study's), the
+//	                            peaks, the method's notes and limits, the dominant
+//	                            frequencies of the transient beside the scan's
+//	                            resonances of the same network, and the lattice
+//	                            diagram when the method is lattice
+//	compareEnergise(st)         every method the study allows on one time step, and
+//	                            their largest differences
+//	energiseTable(res)          the waveforms as a report.Table (CSV)
+//	energisePlotData(res, ...)  the input of report.EnergisePlot; report.LatticePlot
+//	                            draws res.diagram
+//
+// A method that cannot treat the study (the lattice diagram with an inductive source
+// or a shunt) is an input error naming energise.method (exit 2).
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"math/cmplx"
+	"sort"
+	"strings"
+
+	"github.com/mjibson/go-dsp/fft"
+	"github.com/mjibson/go-dsp/window"
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/vg"
+
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
+	"github.com/telegrapher/telegrapher/freqscan"
+	"github.com/telegrapher/telegrapher/waves"
+)
+
+func init() {
+	register(&command{
+		name:  "energise",
+		args:  "STUDY [--method lattice|bergeron|laplace] [--compare] [--json] [--csv F] [--plot F] [--diagram F]",
+		short: "energisation transient of the open-ended line (lattice, Bergeron, numerical Laplace)",
+		long: `Closes the breaker at the sending end onto the line with its far end open, all poles
+together (positive-sequence equivalent): the receiving load and receiving bus-connected
+shunts are off, line-connected reactors stay on. The EMF is a 1 pu step at t = 0 or
+sin(wt + close_deg) ([energise] waveform), with the line at trapped_pu at closing.
+Voltages are in pu of the peak phase-to-earth EMF, voltage_kv * sqrt(2) / sqrt(3).
+
+Methods (--method over [energise] method, default laplace):
+  lattice   Bewley lattice diagram: resistive source only, no shunts; lossless, or each
+            transit attenuated by the line's alpha at the quarter-wave frequency
+  bergeron  method of characteristics, lumped elements by the trapezoidal rule; line
+            resistance lumped R/4, R/2, R/4 at ends and middle
+  laplace   numerical Laplace transform of the whole frequency-domain network (exact
+            line model, frequency-dependent constants included)
+
+The summary gives the peak at each end and when, the method's limits, and the dominant
+frequencies of the transient (Hann window and FFT of the receiving-end voltage) beside
+the resonances of the same network found by a frequency scan. Results are unprotected
+overvoltages (no surge arresters).`,
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+			method := fs.String("method", "", "lattice, bergeron or laplace (default: the study's [energise] method)")
+			compare := fs.Bool("compare", false, "run every method the study allows and print the largest difference")
+			asJSON := fs.Bool("json", false, "write the result as one JSON document")
+			csvPath := fs.String("csv", "", "write the waveforms to this CSV file")
+			plotPath := fs.String("plot", "", "write the waveforms plot (.png or .svg)")
+			diagramPath := fs.String("diagram", "", "write the lattice diagram (.png or .svg)")
+			return func(args []string) error {
+				if len(args) != 1 {
+					return usagef("telegrapher energise: need exactly one STUDY file, got %d arguments\nusage: telegrapher energise %s", len(args), "STUDY [flags]")
+				}
+				for _, pf := range []struct{ path, name string }{{*plotPath, "plot"}, {*diagramPath, "diagram"}} {
+					if pf.path != "" {
+						if _, err := report.PlotFormat(pf.path, pf.name); err != nil {
+							return usagef("%v", err)
+						}
+					}
+				}
+				if *method != "" && !validMethod(*method) {
+					return usagef("--method %s: must be lattice, bergeron or laplace", *method)
+				}
+				st, err := study.Load(args[0])
+				if err != nil {
+					if study.IsInputError(err) {
+						return usagef("%v", err)
+					}
+					return err
+				}
+				res, err := computeEnergise(st, *method)
+				if err != nil {
+					return err
+				}
+				var cmp *energiseComparison
+				if *compare {
+					if cmp, err = compareEnergise(st); err != nil {
+						return err
+					}
+					res.Compare = cmp
+				}
+				if *diagramPath != "" {
+					d := res.diagram
+					if d == nil {
+						lat, err := computeEnergise(st, "lattice")
+						if err != nil {
+							var ue *usageError
+							if errors.As(err, &ue) {
+								return usagef("%v (--diagram draws the lattice diagram)", err)
+							}
+							return err
+						}
+						d = lat.diagram
+					}
+					p, err := report.LatticePlot(report.LatticePlotData{
+						Title:    "Lattice diagram: " + studyTitle(st),
+						Diagram:  d,
+						Sections: sectionNames(st),
+						Sine:     st.Energise.Waveform == "sine",
+					})
+					if err != nil {
+						return err
+					}
+					if err := savePlotAs(p, 9*vg.Inch, 7*vg.Inch, *diagramPath, "diagram"); err != nil {
+						return err
+					}
+				}
+				if *plotPath != "" {
+					p, err := report.EnergisePlot(energisePlotData(st, res))
+					if err != nil {
+						return err
+					}
+					if err := savePlotAs(p, 9*vg.Inch, 5.5*vg.Inch, *plotPath, "plot"); err != nil {
+						return err
+					}
+				}
+				if *csvPath != "" {
+					tbl, err := energiseTable(res)
+					if err != nil {
+						return err
+					}
+					if err := report.WriteFileAtomic(*csvPath, tbl.CSV()); err != nil {
+						return fmt.Errorf("--csv %s: %v", *csvPath, err)
+					}
+				}
+				if *asJSON {
+					return writeJSON(stdout, res)
+				}
+				printEnergise(stdout, st, res)
+				return nil
+			}
+		},
+	})
+}
+
+func validMethod(m string) bool { return m == "lattice" || m == "bergeron" || m == "laplace" }
+
+// savePlotAs renders p by the extension of path and writes it atomically, naming
+// flagName in errors.
+func savePlotAs(p *plot.Plot, w, h vg.Length, path, flagName string) error {
+	format, err := report.PlotFormat(path, flagName)
+	if err != nil {
+		return usagef("%v", err)
+	}
+	b, err := report.RenderPlot(p, w, h, format)
+	if err != nil {
+		return err
+	}
+	if err := report.WriteFileAtomic(path, b); err != nil {
+		return fmt.Errorf("--%s %s: %v", flagName, path, err)
+	}
+	return nil
+}
+
+// energiseResult is the energise command's result; the JSON keys follow the contract
+// (method, peak_pu, t_peak_ms, peak_sending_pu, t_ms, v_receiving_pu, v_sending_pu),
+// the rest are extras.
+type energiseResult struct {
+	Method         string   `json:"method"`
+	PeakPU         float64  `json:"peak_pu"` // signed receiving-end extreme
+	TPeakMs        float64  `json:"t_peak_ms"`
+	PeakSendingPU  float64  `json:"peak_sending_pu"`
+	TPeakSendingMs float64  `json:"t_peak_sending_ms"`
+	PeakKV         float64  `json:"peak_kv"` // the receiving-end peak in kV (signed)
+	BaseKV         float64  `json:"base_kv"` // 1 pu: peak phase-to-earth EMF, kV
+	Waveform       string   `json:"waveform"`
+	CloseDeg       float64  `json:"close_deg"`
+	TrappedPU      float64  `json:"trapped_pu"`
+	DurationMs     float64  `json:"duration_ms"`
+	TimeStepUs     float64  `json:"time_step_us"`
+	TravelTimeMs   float64  `json:"travel_time_ms"`
+	Limits         string   `json:"limits"`
+	Notes          []string `json:"notes"`
+
+	Spectrum   energiseSpectrum    `json:"spectrum"`
+	Resonances []energiseResonance `json:"scan_resonances"`
+	Compare    *energiseComparison `json:"compare,omitempty"`
+
+	TMs          []float64 `json:"t_ms"`
+	VReceivingPU []float64 `json:"v_receiving_pu"`
+	VSendingPU   []float64 `json:"v_sending_pu"`
+	VMiddlePU    []float64 `json:"v_middle_pu,omitempty"`
+
+	diagram *waves.LatticeDiagram
+}
+
+// energiseSpectrum is the spectrum of the receiving-end transient.
+type energiseSpectrum struct {
+	ResolutionHz float64             `json:"resolution_hz"` // 1 / duration
+	Window       string              `json:"window"`
+	Dominant     []energiseFrequency `json:"dominant"`
+}
+
+// energiseFrequency is one dominant frequency of the transient, with the nearest
+// resonance of the scan.
+type energiseFrequency struct {
+	FHz         float64 `json:"f_hz"`
+	Harmonic    float64 `json:"harmonic"`
+	Relative    float64 `json:"relative_amplitude"` // to the largest spectral peak
+	NearestScan float64 `json:"nearest_scan_resonance_hz,omitempty"`
+}
+
+// energiseResonance is a resonance peak of |Vr/E| of the energised network.
+type energiseResonance struct {
+	FHz       float64  `json:"f_hz"`
+	Harmonic  float64  `json:"harmonic"`
+	Gain      *float64 `json:"gain,omitempty"` // absent when unbounded (lossless pole)
+	Unbounded bool     `json:"unbounded,omitempty"`
+}
+
+// energiseComparison is the result of --compare.
+type energiseComparison struct {
+	Methods    []string             `json:"methods"`
+	Skipped    []string             `json:"skipped,omitempty"` // method: why
+	TimeStepUs float64              `json:"time_step_us"`
+	Pairs      []energisePair       `json:"pairs"`
+	MaxDiffPU  float64              `json:"max_diff_pu"`
+	Peaks      map[string]float64   `json:"peak_pu"`
+	traces     map[string][]float64 // receiving-end waveforms by method
+}
+
+// energisePair is the largest difference of the receiving-end voltages of two methods.
+type energisePair struct {
+	A         string  `json:"a"`
+	B         string  `json:"b"`
+	MaxDiffPU float64 `json:"max_diff_pu"`
+	TMs       float64 `json:"t_ms"`
+	RMSDiffPU float64 `json:"rms_diff_pu"`
+}
+
+// energisation returns the study's [energise] settings for package waves.
+func energisation(st *study.Study) waves.Energisation {
+	e := waves.Energisation{
+		Excitation: waves.Step,
+		Omega:      2 * math.Pi * st.Frequency,
+		CloseDeg:   st.Energise.CloseDeg,
+		TrappedPU:  st.Energise.TrappedPU,
+		Duration:   st.Energise.Duration,
+		TimeStep:   st.Energise.TimeStep,
+	}
+	if st.Energise.Waveform == "sine" {
+		e.Excitation = waves.Sine
+	}
+	return e
+}
+
+// lineIsLossy reports whether any section has series resistance or shunt conductance
+// at the system frequency.
+func lineIsLossy(st *study.Study) bool {
+	for _, l := range st.Network.Line {
+		z, y := l.At(complex(0, 2*math.Pi*st.Frequency))
+		if real(z) > 0 || real(y) > 0 {
+			return true
+		}
+	}
+	return false
+}
+
+func travelTime(st *study.Study) float64 {
+	var t float64
+	for _, l := range st.Network.Line {
+		t += l.TravelTime(2 * math.Pi * st.Frequency)
+	}
+	return t
+}
+
+// runMethod computes the waveform of one method; a method that cannot treat the study
+// is a usageError naming energise.method.
+func runMethod(st *study.Study, method string, e waves.Energisation) (*waves.Waveform, *waves.LatticeDiagram, string, error) {
+	net := st.Network.Energising()
+	lossy := lineIsLossy(st)
+	var (
+		w      *waves.Waveform
+		d      *waves.LatticeDiagram
+		err    error
+		limits string
+	)
+	switch method {
+	case "lattice":
+		opt := waves.LatticeOptions{}
+		limits = "lattice diagram: resistive source, no shunts; exact for a lossless line"
+		if lossy {
+			opt.AttenuationHz = 1 / (4 * travelTime(st))
+			limits = fmt.Sprintf("lattice diagram: resistive source, no shunts; losses as a distortionless attenuation at the quarter-wave frequency %.4g Hz", opt.AttenuationHz)
+		}
+		w, d, err = waves.Lattice(net, e, opt)
+	case "bergeron":
+		w, err = waves.Bergeron(net, e, waves.BergeronOptions{LumpedResistance: lossy})
+		limits = "Bergeron: lossless line pieces with constants at the system frequency (no frequency dependence), resistance lumped at ends and middle; trapezoidal lumped elements"
+	case "laplace":
+		w, err = waves.Laplace(net, e, waves.LaplaceOptions{})
+		limits = "numerical Laplace transform: linear network, every element at its frequency-dependent value; the window smooths wavefronts over a few time steps"
+	default:
+		return nil, nil, "", usagef("%s: energise.method: must be lattice, bergeron or laplace, got %q", st.File, method)
+	}
+	switch {
+	case errors.Is(err, waves.ErrMethod):
+		return nil, nil, "", usagef("%s: energise.method: %s cannot treat this study: %s", st.File, method, strings.TrimPrefix(err.Error(), waves.ErrMethod.Error()+": "))
+	case errors.Is(err, waves.ErrSettings):
+		msg := strings.TrimPrefix(err.Error(), waves.ErrSettings.Error()+": ")
+		key := "energise"
+		for _, k := range []struct{ word, key string }{
+			{"time step", "energise.time_step_us"}, {"duration", "energise.duration_ms"},
+			{"trapped", "energise.trapped_pu"}, {"closing angle", "energise.close_deg"},
+		} {
+			if strings.Contains(msg, k.word) {
+				key = k.key
+				break
+			}
+		}
+		return nil, nil, "", usagef("%s: %s: %s", st.File, key, msg)
+	case err != nil:
+		return nil, nil, "", err
+	}
+	return w, d, limits, nil
+}
+
+// computeEnergise computes the energisation by method ("" = the study's [energise]
+// method, default laplace).
+func computeEnergise(st *study.Study, method string) (energiseResult, error) {
+	if method == "" {
+		method = st.Energise.Method
+	}
+	if method == "" {
+		method = "laplace"
+	}
+	e := energisation(st)
+	w, d, limits, err := runMethod(st, method, e)
+	if err != nil {
+		return energiseResult{}, err
+	}
+	base := st.Voltage * math.Sqrt2 / math.Sqrt(3) / 1e3
+	res := energiseResult{
+		Method:       method,
+		BaseKV:       base,
+		Waveform:     e.Excitation.String(),
+		CloseDeg:     e.CloseDeg,
+		TrappedPU:    e.TrappedPU,
+		DurationMs:   e.Duration * 1e3,
+		TimeStepUs:   w.Step * 1e6,
+		TravelTimeMs: travelTime(st) * 1e3,
+		Limits:       limits,
+		Notes:        w.Notes,
+		VReceivingPU: w.Receiving,
+		VSendingPU:   w.Sending,
+		VMiddlePU:    w.Middle,
+		diagram:      d,
+	}
+	if e.Excitation != waves.Sine {
+		res.CloseDeg = 0
+	}
+	res.TMs = make([]float64, len(w.Receiving))
+	for k := range res.TMs {
+		res.TMs[k] = w.Time(k) * 1e3
+	}
+	pk, k := waves.Peak(w.Receiving)
+	res.PeakPU, res.TPeakMs, res.PeakKV = pk, res.TMs[k], pk*base
+	pk, k = waves.Peak(w.Sending)
+	res.PeakSendingPU, res.TPeakSendingMs = pk, res.TMs[k]
+	res.Resonances = scanResonances(st, w.Step)
+	res.Spectrum = transientSpectrum(w.Receiving, w.Step, st.Frequency, res.Resonances)
+	return res, nil
+}
+
+// scanResonances returns the resonance peaks of |Vr/E| of the energised network on a
+// grid from 1 Hz to the lesser of 10 kHz and the transient's Nyquist frequency, by the
+// scan's own peak finder (freqscan.Peaks).
+func scanResonances(st *study.Study, dt float64) []energiseResonance {
+	net := st.Network.Energising()
+	top := math.Min(10e3, 0.5/dt)
+	const n = 6000
+	freqs := make([]float64, n)
+	for i := range freqs {
+		freqs[i] = 1 + (top-1)*float64(i)/(n-1)
+	}
+	pts := freqscan.Scan(nil, net, freqs)
+	var out []energiseResonance
+	for _, p := range freqscan.Peaks(net, pts) {
+		r := energiseResonance{FHz: p.F, Harmonic: p.F / st.Frequency, Unbounded: p.Unbounded}
+		if !p.Unbounded && !math.IsInf(p.Gain, 0) && !math.IsNaN(p.Gain) {
+			g := p.Gain
+			r.Gain = &g
+		} else {
+			r.Unbounded = true
+		}
+		out = append(out, r)
+	}
+	return out
+}
+
+// transientSpectrum finds the dominant frequencies of the transient v (step dt): the
+// deviation from its mean, Hann-windowed (go-dsp window.Hann), zero-padded to eight
+// times its length and transformed (go-dsp fft.FFTReal); the local maxima of the
+// magnitude above 10 % of the largest (above 2/duration), refined by a parabola through three bins,
+// the four largest by frequency.
+func transientSpectrum(v []float64, dt, f0 float64, res []energiseResonance) energiseSpectrum {
+	sp := energiseSpectrum{Window: "Hann (go-dsp), zero-padded x8"}
+	n := len(v)
+	if n < 8 {
+		return sp
+	}
+	duration := float64(n-1) * dt
+	sp.ResolutionHz = 1 / duration
+	// Long waveforms: decimate to at most 65,536 samples (the spectrum of interest
+	// lies far below the Nyquist frequency of the decimated record).
+	step := 1
+	for n/step > 65536 {
+		step *= 2
+	}
+	m := n / step
+	x := make([]float64, m)
+	var mean float64
+	for i := range x {
+		x[i] = v[i*step]
+		mean += x[i]
+	}
+	mean /= float64(m)
+	for i := range x {
+		x[i] -= mean
+	}
+	window.Apply(x, window.Hann)
+	size := 1
+	for size < 8*m {
+		size *= 2
+	}
+	padded := make([]float64, size)
+	copy(padded, x)
+	spec := fft.FFTReal(padded)
+	mag := make([]float64, size/2)
+	for i := range mag {
+		mag[i] = cmplx.Abs(spec[i])
+	}
+	df := 1 / (float64(size) * dt * float64(step))
+	// Below two resolutions (2/duration) a component is not told from the mean and
+	// the window: those are left out.
+	lowest := max(int(math.Ceil(2*sp.ResolutionHz/df)), 1)
+	type cand struct{ f, a float64 }
+	var cs []cand
+	var top float64
+	for i := lowest; i < len(mag)-1; i++ {
+		if mag[i] > mag[i-1] && mag[i] >= mag[i+1] {
+			a, b, c := mag[i-1], mag[i], mag[i+1]
+			off := 0.0
+			if den := a - 2*b + c; den != 0 {
+				off = 0.5 * (a - c) / den
+			}
+			cs = append(cs, cand{(float64(i) + off) * df, b})
+			top = math.Max(top, b)
+		}
+	}
+	if top == 0 {
+		return sp
+	}
+	kept := cs[:0]
+	for _, c := range cs {
+		if c.a >= 0.1*top {
+			kept = append(kept, cand{c.f, c.a / top})
+		}
+	}
+	cs = kept
+	sort.Slice(cs, func(i, j int) bool { return cs[i].a > cs[j].a })
+	if len(cs) > 4 {
+		cs = cs[:4]
+	}
+	sort.Slice(cs, func(i, j int) bool { return cs[i].f < cs[j].f })
+	for _, c := range cs {
+		d := energiseFrequency{FHz: c.f, Harmonic: c.f / f0, Relative: c.a}
+		best := math.Inf(1)
+		for _, r := range res {
+			if dd := math.Abs(r.FHz - c.f); dd < best {
+				best, d.NearestScan = dd, r.FHz
+			}
+		}
+		sp.Dominant = append(sp.Dominant, d)
+	}
+	return sp
+}
+
+// compareEnergise runs every method the study allows on the Bergeron time step (or
+// the study's time_step_us) and returns the largest receiving-end differences.
+func compareEnergise(st *study.Study) (*energiseComparison, error) {
+	e := energisation(st)
+	cmp := &energiseComparison{Peaks: map[string]float64{}, traces: map[string][]float64{}}
+	ber, _, _, err := runMethod(st, "bergeron", e)
+	if err != nil {
+		return nil, err
+	}
+	e.TimeStep = ber.Step
+	cmp.TimeStepUs = ber.Step * 1e6
+	for _, m := range []string{"lattice", "bergeron", "laplace"} {
+		w := ber
+		if m != "bergeron" {
+			var err error
+			w, _, _, err = runMethod(st, m, e)
+			var ue *usageError
+			if errors.As(err, &ue) && strings.Contains(err.Error(), "energise.method") {
+				cmp.Skipped = append(cmp.Skipped, m+": "+err.Error())
+				continue
+			}
+			if err != nil {
+				return nil, err
+			}
+		}
+		cmp.Methods = append(cmp.Methods, m)
+		cmp.traces[m] = w.Receiving
+		cmp.Peaks[m], _ = waves.Peak(w.Receiving)
+	}
+	for i, a := range cmp.Methods {
+		for _, b := range cmp.Methods[i+1:] {
+			va, vb := cmp.traces[a], cmp.traces[b]
+			p := energisePair{A: a, B: b}
+			m := min(len(va), len(vb))
+			var sum float64
+			for k := range m {
+				d := math.Abs(va[k] - vb[k])
+				sum += d * d
+				if d > p.MaxDiffPU {
+					p.MaxDiffPU, p.TMs = d, float64(k)*ber.Step*1e3
+				}
+			}
+			p.RMSDiffPU = math.Sqrt(sum / float64(m))
+			cmp.Pairs = append(cmp.Pairs, p)
+			cmp.MaxDiffPU = math.Max(cmp.MaxDiffPU, p.MaxDiffPU)
+		}
+	}
+	return cmp, nil
+}
+
+// energiseTable returns the waveforms as a table: t_ms, v_sending_pu, v_receiving_pu
+// and v_middle_pu where the method gives it.
+func energiseTable(res energiseResult) (*report.Table, error) {
+	cols := []string{"t_ms", "v_sending_pu", "v_receiving_pu"}
+	if res.VMiddlePU != nil {
+		cols = append(cols, "v_middle_pu")
+	}
+	t := report.NewTable(cols...)
+	for k, tm := range res.TMs {
+		row := []any{tm, res.VSendingPU[k], res.VReceivingPU[k]}
+		if res.VMiddlePU != nil {
+			row = append(row, res.VMiddlePU[k])
+		}
+		if err := t.Add(row...); err != nil {
+			return nil, err
+		}
+	}
+	return t, nil
+}
+
+// energisePlotData builds the waveform plot's input: the receiving end bold, the
+// sending end, the mid-line voltage dashed, and with a comparison each other method's
+// receiving end.
+func energisePlotData(st *study.Study, res energiseResult) report.EnergisePlotData {
+	d := report.EnergisePlotData{
+		Title:   fmt.Sprintf("Energisation, far end open: %s (%s)", studyTitle(st), res.Method),
+		BaseKV:  res.BaseKV,
+		PeakTMs: res.TPeakMs,
+		PeakPU:  res.PeakPU,
+	}
+	d.Traces = append(d.Traces,
+		report.EnergiseTrace{Name: "receiving end (open)", TMs: res.TMs, V: res.VReceivingPU, Bold: true},
+		report.EnergiseTrace{Name: "sending end", TMs: res.TMs, V: res.VSendingPU})
+	if res.VMiddlePU != nil {
+		d.Traces = append(d.Traces, report.EnergiseTrace{Name: "mid-line", TMs: res.TMs, V: res.VMiddlePU, Dashed: true})
+	}
+	if c := res.Compare; c != nil {
+		for _, m := range c.Methods {
+			if m == res.Method {
+				continue
+			}
+			v := c.traces[m]
+			t := make([]float64, len(v))
+			for k := range t {
+				t[k] = float64(k) * c.TimeStepUs / 1e3
+			}
+			d.Traces = append(d.Traces, report.EnergiseTrace{Name: "receiving end (" + m + ")", TMs: t, V: v, Dashed: true})
+		}
+	}
+	return d
+}
+
+func studyTitle(st *study.Study) string {
+	if st.Title != "" {
+		return st.Title
+	}
+	return st.File
+}
+
+func sectionNames(st *study.Study) []string {
+	names := make([]string, len(st.Network.Line))
+	for i, l := range st.Network.Line {
+		names[i] = l.Name
+	}
+	return names
+}
+
+func printEnergise(w io.Writer, st *study.Study, res energiseResult) {
+	fmt.Fprintf(w, "energisation of the open-ended line: %s\n", studyTitle(st))
+	exc := "1 pu step of EMF at t = 0"
+	if res.Waveform == "sine" {
+		exc = fmt.Sprintf("EMF sin(wt + %g deg)", res.CloseDeg)
+	}
+	fmt.Fprintf(w, "  %s, trapped charge %g pu, %g ms in steps of %.4g us; travel time %.4f ms\n", exc, res.TrappedPU, res.DurationMs, res.TimeStepUs, res.TravelTimeMs)
+	fmt.Fprintf(w, "  1 pu = %.4g kV (peak phase-to-earth EMF)\n\n", res.BaseKV)
+	fmt.Fprintf(w, "method %s\n  limits: %s\n", res.Method, res.Limits)
+	for _, n := range res.Notes {
+		fmt.Fprintf(w, "  %s\n", n)
+	}
+	fmt.Fprintf(w, "\npeak at the receiving (open) end  %+.4f pu = %+.1f kV at %.3f ms\n", res.PeakPU, res.PeakKV, res.TPeakMs)
+	fmt.Fprintf(w, "peak at the sending end           %+.4f pu = %+.1f kV at %.3f ms\n", res.PeakSendingPU, res.PeakSendingPU*res.BaseKV, res.TPeakSendingMs)
+	fmt.Fprintf(w, "\ndominant frequencies of the receiving-end transient (%s, resolution %.3g Hz, above %.3g Hz):\n", res.Spectrum.Window, res.Spectrum.ResolutionHz, 2*res.Spectrum.ResolutionHz)
+	if len(res.Spectrum.Dominant) == 0 {
+		fmt.Fprintln(w, "  none found")
+	}
+	for _, d := range res.Spectrum.Dominant {
+		near := ""
+		if d.NearestScan > 0 {
+			near = fmt.Sprintf("   nearest scan resonance %.1f Hz (h %.2f)", d.NearestScan, d.NearestScan/st.Frequency)
+		}
+		fmt.Fprintf(w, "  %8.1f Hz  h %6.2f  relative amplitude %.2f%s\n", d.FHz, d.Harmonic, d.Relative, near)
+	}
+	fmt.Fprintln(w, "resonances of |Vr/E| of the same network (frequency scan, far end open):")
+	shown := 0
+	for _, r := range res.Resonances {
+		if shown == 6 {
+			fmt.Fprintf(w, "  ... %d more\n", len(res.Resonances)-shown)
+			break
+		}
+		g := "unbounded (lossless)"
+		if r.Gain != nil {
+			g = fmt.Sprintf("gain %.3g", *r.Gain)
+		}
+		fmt.Fprintf(w, "  %8.1f Hz  h %6.2f  %s\n", r.FHz, r.Harmonic, g)
+		shown++
+	}
+	if shown == 0 {
+		fmt.Fprintln(w, "  none in the scanned range")
+	}
+	if c := res.Compare; c != nil {
+		fmt.Fprintf(w, "\ncomparison on one time step (%.4g us), receiving end:\n", c.TimeStepUs)
+		for _, m := range c.Methods {
+			fmt.Fprintf(w, "  %-9s peak %+.4f pu\n", m, c.Peaks[m])
+		}
+		for _, p := range c.Pairs {
+			fmt.Fprintf(w, "  %s vs %s: largest difference %.4f pu at %.3f ms, rms %.4f pu\n", p.A, p.B, p.MaxDiffPU, p.TMs, p.RMSDiffPU)
+		}
+		fmt.Fprintf(w, "  largest difference of all: %.4f pu (differences concentrate at wavefronts, where each method smooths the jump its own way)\n", c.MaxDiffPU)
+		for _, s := range c.Skipped {
+			fmt.Fprintf(w, "  skipped %s\n", s)
+		}
+	}
+	fmt.Fprintln(w, "\nUnprotected overvoltages (no surge arresters). "+Caution)
+}

@@ -1,0 +1,122 @@
+package waves
+
+import (
+	"errors"
+	"fmt"
+	"math"
+)
+
+// Excitation names the source EMF applied at the closing instant t = 0.
+type Excitation int
+
+const (
+	// Step is a 1 pu EMF step at t = 0 (the source at rest before).
+	Step Excitation = iota
+	// Sine is e(t) = sin(ωt + CloseDeg), the source in its steady state before
+	// closing.
+	Sine
+)
+
+func (e Excitation) String() string {
+	if e == Sine {
+		return "sine"
+	}
+	return "step"
+}
+
+// MaxSamples is the largest number of time steps a transient may take
+// (duration / time step).
+const MaxSamples = 10_000_000
+
+// Energisation describes the closing of the breaker at the sending end onto the
+// open-ended line.
+type Energisation struct {
+	Excitation Excitation
+	Omega      float64 // system angular frequency, rad/s (> 0; used by Sine and for line constants)
+	CloseDeg   float64 // Sine: EMF phase angle at t = 0, degrees
+	TrappedPU  float64 // line voltage at closing, pu (with line-connected reactors: at zero reactor current)
+	Duration   float64 // s, > 0
+	TimeStep   float64 // s; 0 = chosen by the method
+}
+
+// emf returns the source EMF at t >= 0 in pu.
+func (e Energisation) emf(t float64) float64 {
+	if e.Excitation == Sine {
+		return math.Sin(e.Omega*t + e.CloseDeg*math.Pi/180)
+	}
+	return 1
+}
+
+// ErrSettings is wrapped by every error about the energisation settings, so a caller
+// can tell them from errors about the network.
+var ErrSettings = errors.New("energisation settings")
+
+// ErrMethod is wrapped by every error that says a method cannot treat the network
+// (for example the lattice diagram with an inductive source).
+var ErrMethod = errors.New("method cannot treat this network")
+
+func (e Energisation) check() error {
+	switch {
+	case !(e.Duration > 0) || math.IsInf(e.Duration, 0):
+		return fmt.Errorf("%w: duration must be > 0 and finite, got %g s", ErrSettings, e.Duration)
+	case !(e.Omega > 0) || math.IsInf(e.Omega, 0):
+		return fmt.Errorf("%w: angular frequency must be > 0, got %g rad/s", ErrSettings, e.Omega)
+	case e.TimeStep < 0 || math.IsNaN(e.TimeStep) || math.IsInf(e.TimeStep, 0):
+		return fmt.Errorf("%w: time step must be >= 0, got %g s", ErrSettings, e.TimeStep)
+	case math.IsNaN(e.TrappedPU) || math.IsInf(e.TrappedPU, 0) || math.Abs(e.TrappedPU) > 10:
+		return fmt.Errorf("%w: trapped charge must be within ±10 pu, got %g", ErrSettings, e.TrappedPU)
+	case math.IsNaN(e.CloseDeg) || math.IsInf(e.CloseDeg, 0):
+		return fmt.Errorf("%w: closing angle must be finite, got %g", ErrSettings, e.CloseDeg)
+	case e.Excitation != Step && e.Excitation != Sine:
+		return fmt.Errorf("%w: unknown excitation %d", ErrSettings, int(e.Excitation))
+	}
+	if e.TimeStep > 0 && e.Duration/e.TimeStep > MaxSamples {
+		return fmt.Errorf("%w: duration / time step = %.4g exceeds %d samples", ErrSettings, e.Duration/e.TimeStep, MaxSamples)
+	}
+	return nil
+}
+
+// samples returns the number of samples (including t = 0) for a step dt.
+func samples(duration, dt float64) int {
+	return int(math.Floor(duration/dt+1e-9)) + 1
+}
+
+// Waveform is a transient sampled evenly from t = 0 with step Step (s). Voltages are
+// in pu of the peak phase-to-earth EMF. Middle is the voltage at mid-line (nil where
+// the method does not give it).
+type Waveform struct {
+	Method    string
+	Step      float64   // s
+	Sending   []float64 // sending-end (line side of the breaker) voltage, pu
+	Receiving []float64 // open receiving-end voltage, pu
+	Middle    []float64 // mid-line voltage, pu; may be nil
+	// Notes states the method's assumptions and its error estimate, for the reader.
+	Notes []string
+}
+
+// Time returns the time of sample k in seconds.
+func (w *Waveform) Time(k int) float64 { return float64(k) * w.Step }
+
+// Peak returns the signed value of largest magnitude of v and its sample index
+// (0, -1 for an empty slice).
+func Peak(v []float64) (value float64, index int) {
+	index = -1
+	for k, x := range v {
+		if index < 0 || math.Abs(x) > math.Abs(value) {
+			value, index = x, k
+		}
+	}
+	return value, index
+}
+
+// finite reports whether every sample is finite.
+func finite(vs ...[]float64) bool {
+	for _, v := range vs {
+		for _, x := range v {
+			if math.IsNaN(x) || math.IsInf(x, 0) {
+				return false
+			}
+		}
+	}
+	return true
+}
