@@ -1,0 +1,447 @@
+package main
+
+// The loading command: the line with both ends held at 1 pu from no load to twice the
+// surge-impedance loading (angle, reactive power at each end, losses, voltage along
+// the line), the open receiving end (Ferranti rise, charging, the reactor that brings
+// the rise to a target) and the loadability against length.
+//
+// For reuse (the report command):
+//
+//	computeLoading(st, targetPU) (loadingResult, error)  every number, no output
+//	loadingPlots(r) []*plot.Plot                          the three panels, built by
+//	                                                      report.LoadingProfilePlot,
+//	                                                      report.LoadingReactivePlot,
+//	                                                      report.LoadabilityPlot
+
+import (
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"math/cmplx"
+	"strings"
+
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
+	"github.com/telegrapher/telegrapher/freqscan"
+	"github.com/telegrapher/telegrapher/propagation"
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/vg"
+)
+
+func init() {
+	register(&command{
+		name:  "loading",
+		args:  "STUDY [--json] [--plot F] [--target-pu X]",
+		short: "angle, reactive power and voltage profile with both ends at 1 pu; open-end rise; loadability",
+		long: `
+Holds both ends of the line at 1 pu (voltage_kv) and lets it deliver active power into
+the receiving bus from 0 to twice the surge-impedance loading (SIL), or to the largest
+power it can deliver, whichever is less. For each loading it gives the angle of the
+sending-end voltage ahead of the receiving end, the reactive power the sending bus
+delivers into the line (Qs) and the line delivers into the receiving bus (Qr), the
+losses, and the voltage along the line (mid-line, highest and lowest, and where). The
+exact long-line equations of every section are used at frequency_hz, losses included.
+Qs_net and Qr_net add the study's shunts in service at 1 pu.
+
+With the receiving end open it gives the no-load (Ferranti) rise and the charging
+reactive power, for the line alone and with the study's line-connected shunts, and the
+receiving-end reactor rating (Mvar at voltage_kv) that brings the open-end voltage to
+--target-pu.
+
+Last, the loadability against length by the analytical method of Dunlop, Gutman and
+Marchenko (1979), after St. Clair (1953): the smaller of a 5 % voltage-drop limit (unity
+power factor at the receiving end) and a 30 % steady-state stability margin (ends at
+1.0 and 0.95 pu, terminal systems from [source] and [receiving] short_circuit_mva and
+x_over_r, 50 kA where absent as in the paper). No thermal limit is applied. The line
+under study is placed on the curve (lines of its make, scaled in length).
+
+--plot F writes one figure (PNG or SVG by extension) with three panels: voltage
+profiles for a few loadings, reactive power against loading, and the loadability curve.`,
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+			asJSON := fs.Bool("json", false, "write the results as one JSON document")
+			plotPath := fs.String("plot", "", "write the figure to `F` (.png or .svg)")
+			target := fs.Float64("target-pu", 1.0, "open-end voltage `X` (pu of the sending end) the receiving-end reactor should give")
+			return func(args []string) error {
+				if len(args) != 1 {
+					return usagef("telegrapher loading: expected one STUDY file, got %d arguments\nusage: telegrapher loading STUDY [--json] [--plot F] [--target-pu X]", len(args))
+				}
+				if !(*target > 0) || *target > 2 || math.IsNaN(*target) {
+					return usagef("telegrapher loading: --target-pu: must be > 0 and <= 2, got %g", *target)
+				}
+				format := ""
+				if *plotPath != "" {
+					f, err := report.PlotFormat(*plotPath, "plot")
+					if err != nil {
+						return usagef("telegrapher loading: %v", err)
+					}
+					format = f
+				}
+				st, err := study.Load(args[0])
+				if err != nil {
+					if study.IsInputError(err) {
+						return &usageError{err.Error()}
+					}
+					return err
+				}
+				r, err := computeLoading(st, *target)
+				if err != nil {
+					return usagef("%s: %v", st.File, err)
+				}
+				if format != "" {
+					b, err := report.RenderLoadingFigure(loadingPlots(r), 8*vg.Inch, 4*vg.Inch, format)
+					if err != nil {
+						return err
+					}
+					if err := report.WriteFileAtomic(*plotPath, b); err != nil {
+						return err
+					}
+				}
+				if *asJSON {
+					return writeJSON(stdout, r)
+				}
+				printLoading(stdout, r)
+				return nil
+			}
+		},
+	})
+}
+
+// loadingResult is everything the loading command computes. Its JSON form is the
+// contract's `loading` document (sil_mw, p_max_mw, points) with extras.
+type loadingResult struct {
+	Title          string               `json:"title,omitempty"`
+	FrequencyHz    float64              `json:"frequency_hz"`
+	VoltageKV      float64              `json:"voltage_kv"`
+	LengthKm       float64              `json:"length_km"`
+	SILMW          float64              `json:"sil_mw"`
+	PMaxMW         float64              `json:"p_max_mw"`
+	DeltaAtPMaxDeg float64              `json:"delta_at_p_max_deg"`
+	Points         []loadingPointJSON   `json:"points"`
+	Profiles       []loadingProfile     `json:"profiles"`
+	OpenEnd        openEndJSON          `json:"open_end"`
+	Loadability    loadabilityJSON      `json:"loadability"`
+	Notes          []string             `json:"notes"`
+	shuntsSend     float64              // var absorbed by the sending-end shunts at 1 pu
+	shuntsRecv     float64              // var absorbed by the receiving-end shunts at 1 pu
+	curve          []loadabilityCurvePt // for the plot
+}
+
+type loadingPointJSON struct {
+	PMW      float64 `json:"p_mw"`
+	PSIL     float64 `json:"p_sil"`
+	DeltaDeg float64 `json:"delta_deg"`
+	QsMvar   float64 `json:"qs_mvar"`
+	QrMvar   float64 `json:"qr_mvar"`
+	VMidPU   float64 `json:"v_mid_pu"`
+	VMaxPU   float64 `json:"v_max_pu"`
+	VMinPU   float64 `json:"v_min_pu"`
+	XVMaxKm  float64 `json:"x_v_max_km"`
+	XVMinKm  float64 `json:"x_v_min_km"`
+	LossesMW float64 `json:"losses_mw"`
+	// With the study's shunts (line- and bus-connected) in service at 1 pu: what the
+	// sending system must supply, and what the receiving system receives.
+	QsNetMvar float64 `json:"qs_net_mvar"`
+	QrNetMvar float64 `json:"qr_net_mvar"`
+}
+
+type loadingProfile struct {
+	PSIL float64   `json:"p_sil"`
+	XKm  []float64 `json:"x_km"`
+	VPU  []float64 `json:"v_pu"`
+}
+
+type openEndJSON struct {
+	RisePU             float64 `json:"rise_pu"`             // |Vr/Vs|, line alone
+	ChargingMvar       float64 `json:"charging_mvar"`       // generated by the line alone, into the sending bus
+	RiseWithShuntsPU   float64 `json:"rise_with_shunts_pu"` // with the line-connected shunts
+	ChargingShuntsMvar float64 `json:"charging_with_shunts_mvar"`
+	RiseFromEMFPU      float64 `json:"rise_from_emf_pu"` // |Vr/E| with the source and sending shunts
+	TargetPU           float64 `json:"target_pu"`
+	ReactorMvar        float64 `json:"reactor_mvar"`       // on the bare line, for the target
+	ReactorAddedMvar   float64 `json:"reactor_added_mvar"` // beyond the study's receiving line-connected shunts
+}
+
+type loadabilityJSON struct {
+	Method             string               `json:"method"`
+	VoltageDropPct     float64              `json:"voltage_drop_pct"`
+	StabilityMarginPct float64              `json:"stability_margin_pct"`
+	SendingSystem      string               `json:"sending_system"`
+	ReceivingSystem    string               `json:"receiving_system"`
+	Thermal            string               `json:"thermal"`
+	SIL                float64              `json:"loadability_sil"`
+	MW                 float64              `json:"loadability_mw"`
+	VoltageDropSIL     float64              `json:"voltage_drop_limit_sil"`
+	StabilitySIL       float64              `json:"stability_limit_sil"`
+	LineAngleDeg       float64              `json:"line_angle_at_limit_deg"`
+	SystemAngleDeg     float64              `json:"system_angle_at_limit_deg"`
+	Governs            string               `json:"governs"`
+	Curve              []loadabilityCurvePt `json:"curve"`
+}
+
+type loadabilityCurvePt struct {
+	LengthKm       float64 `json:"length_km"`
+	VoltageDropSIL float64 `json:"voltage_drop_sil"`
+	StabilitySIL   float64 `json:"stability_sil"`
+	LoadabilitySIL float64 `json:"loadability_sil"`
+}
+
+// computeLoading computes the loading study of st: both ends at 1 pu from 0 to
+// min(2 SIL, p_max), the open end with the receiving reactor for targetPU (> 0), and
+// the loadability. Errors are problems with the study's data.
+func computeLoading(st *study.Study, targetPU float64) (loadingResult, error) {
+	var r loadingResult
+	if len(st.Line) == 0 {
+		return r, fmt.Errorf("line: no line sections")
+	}
+	omega := 2 * math.Pi * st.Frequency
+	v := st.Voltage
+	s := complex(0, omega)
+	r.Title = st.Title
+	r.FrequencyHz, r.VoltageKV, r.LengthKm = st.Frequency, v/1e3, st.Line.Length()/1e3
+	sil := propagation.SurgeImpedanceLoading(st.Line, v, omega)
+	if !(sil > 0) {
+		return r, fmt.Errorf("line: the surge-impedance loading needs inductance and capacitance > 0")
+	}
+	pmax, dmax, err := propagation.MaxTransfer(st.Line, omega, v)
+	if err != nil {
+		return r, loadingKeyErr("line", err)
+	}
+	r.SILMW, r.PMaxMW, r.DeltaAtPMaxDeg = sil/1e6, pmax/1e6, dmax*180/math.Pi
+
+	// Reactive power absorbed by the study's shunts at each end at 1 pu.
+	var ySendLine, yRecvLine complex128
+	for _, sh := range st.Network.Shunts {
+		y := sh.Admittance(s)
+		q := -v * v * imag(y)
+		if sh.End == freqscan.Sending {
+			r.shuntsSend += q
+			if sh.OnLine {
+				ySendLine += y
+			}
+		} else {
+			r.shuntsRecv += q
+			if sh.OnLine {
+				yRecvLine += y
+			}
+		}
+	}
+
+	powers := propagation.LoadingPowers(sil, pmax)
+	pts, err := propagation.BothEndsHeld(st.Line, omega, v, powers)
+	if err != nil {
+		return r, loadingKeyErr("line", err)
+	}
+	for _, pt := range pts {
+		r.Points = append(r.Points, loadingPointJSON{
+			PMW: pt.P / 1e6, PSIL: pt.P / sil, DeltaDeg: pt.Delta * 180 / math.Pi,
+			QsMvar: pt.Qs / 1e6, QrMvar: pt.Qr / 1e6,
+			VMidPU: pt.VMid, VMaxPU: pt.VMax, VMinPU: pt.VMin,
+			XVMaxKm: pt.XVMax / 1e3, XVMinKm: pt.XVMin / 1e3, LossesMW: pt.Losses / 1e6,
+			QsNetMvar: (pt.Qs + r.shuntsSend) / 1e6, QrNetMvar: (pt.Qr - r.shuntsRecv) / 1e6,
+		})
+	}
+
+	// Profiles at a few loadings.
+	end := math.Min(2*sil, pmax)
+	var prof []float64
+	for _, k := range []float64{0, 0.5, 1, 1.5, 2} {
+		if k*sil <= end*(1+1e-12) {
+			prof = append(prof, math.Min(k*sil, end))
+		}
+	}
+	if end < 2*sil && end > prof[len(prof)-1]*(1+1e-6) {
+		prof = append(prof, end)
+	}
+	ppts, err := propagation.BothEndsHeld(st.Line, omega, v, prof)
+	if err != nil {
+		return r, loadingKeyErr("line", err)
+	}
+	const nx = 201
+	xs := make([]float64, nx)
+	for i := range xs {
+		xs[i] = st.Line.Length() * float64(i) / (nx - 1)
+	}
+	var buf []complex128
+	for _, pt := range ppts {
+		buf = propagation.VoltageAlong(buf, st.Line, omega, pt.Vr, pt.Ir, xs)
+		lp := loadingProfile{PSIL: pt.P / sil, XKm: make([]float64, nx), VPU: make([]float64, nx)}
+		for i := range xs {
+			lp.XKm[i] = xs[i] / 1e3
+			lp.VPU[i] = cmplx.Abs(buf[i]) / v
+		}
+		r.Profiles = append(r.Profiles, lp)
+	}
+
+	// Open receiving end.
+	bare, err := propagation.OpenEnd(st.Line, omega, v, 0, 0)
+	if err != nil {
+		return r, loadingKeyErr("line", err)
+	}
+	with, err := propagation.OpenEnd(st.Line, omega, v, ySendLine, yRecvLine)
+	if err != nil {
+		return r, loadingKeyErr("shunt", err)
+	}
+	resp := st.Network.Energising().At(s)
+	r.OpenEnd = openEndJSON{
+		RisePU: bare.Rise, ChargingMvar: bare.Charging / 1e6,
+		RiseWithShuntsPU: with.Rise, ChargingShuntsMvar: with.Charging / 1e6,
+		RiseFromEMFPU: cmplx.Abs(resp.VrE), TargetPU: targetPU,
+	}
+	q0, err := propagation.ReactorForRise(st.Line, omega, v, 0, targetPU)
+	if err != nil {
+		return r, loadingKeyErr("--target-pu", err)
+	}
+	q1, err := propagation.ReactorForRise(st.Line, omega, v, yRecvLine, targetPU)
+	if err != nil {
+		return r, loadingKeyErr("--target-pu", err)
+	}
+	r.OpenEnd.ReactorMvar, r.OpenEnd.ReactorAddedMvar = q0/1e6, q1/1e6
+	if with.Rise < targetPU {
+		r.Notes = append(r.Notes, fmt.Sprintf("with the study's shunts the open-end voltage (%.4f pu) is already below the target %.4g pu: no reactor is added", with.Rise, targetPU))
+	}
+
+	// Loadability.
+	lim := propagation.DefaultLoadabilityLimits(v)
+	la := &r.Loadability
+	la.Method = "Dunlop, Gutman, Marchenko (1979), after St. Clair (1953)"
+	la.VoltageDropPct, la.StabilityMarginPct = lim.VoltageDrop*100, lim.StabilityMargin*100
+	la.SendingSystem = "50 kA at voltage_kv, purely reactive (assumed, as in the paper: no [source])"
+	if !st.Source.Ideal {
+		lim.Zs = complex(st.Source.R, omega*st.Source.L)
+		la.SendingSystem = fmt.Sprintf("[source]: %.4g + j%.4g ohm", real(lim.Zs), imag(lim.Zs))
+	}
+	la.ReceivingSystem = "50 kA at voltage_kv, purely reactive (assumed, as in the paper: no receiving.short_circuit_mva)"
+	if sc := st.Receiving.ShortCircuitVA; sc > 0 {
+		lim.Zr = propagation.TerminalImpedance(v, sc, st.Receiving.XOverR)
+		xr := "purely reactive"
+		if st.Receiving.XOverR > 0 {
+			xr = fmt.Sprintf("X/R %g", st.Receiving.XOverR)
+		}
+		la.ReceivingSystem = fmt.Sprintf("[receiving]: %.0f MVA, %s", sc/1e6, xr)
+	}
+	la.Thermal = "not applied (no conductor rating in the study)"
+	this, err := propagation.Loadability(st.Line, omega, v, lim)
+	if err != nil {
+		return r, loadingKeyErr("line", err)
+	}
+	la.SIL, la.MW = this.Loadability/sil, this.Loadability/1e6
+	la.VoltageDropSIL, la.StabilitySIL = this.VoltageDrop/sil, this.Stability/sil
+	la.LineAngleDeg, la.SystemAngleDeg = this.LineAngle*180/math.Pi, this.SystemAngle*180/math.Pi
+	la.Governs = this.Governs
+	maxLen := math.Max(800e3, 1.25*st.Line.Length())
+	const nl = 80
+	lengths := make([]float64, nl)
+	for i := range lengths {
+		lengths[i] = maxLen * float64(i+1) / nl
+	}
+	curve, err := propagation.LoadabilityCurve(st.Line, omega, v, lim, lengths)
+	if err != nil {
+		return r, loadingKeyErr("line", err)
+	}
+	for _, c := range curve {
+		la.Curve = append(la.Curve, loadabilityCurvePt{
+			LengthKm: c.Length / 1e3, VoltageDropSIL: c.VoltageDrop / c.SIL,
+			StabilitySIL: c.Stability / c.SIL, LoadabilitySIL: c.Loadability / c.SIL,
+		})
+	}
+	r.curve = la.Curve
+	if len(st.Line) > 1 {
+		r.Notes = append(r.Notes, "SIL of the sections in cascade uses sqrt(total L / total C); the loadability curve scales every section in proportion")
+	}
+	return r, nil
+}
+
+// loadingKeyErr names the study key (or flag) an error from the library is about.
+func loadingKeyErr(key string, err error) error {
+	return fmt.Errorf("%s: %s", key, strings.TrimPrefix(err.Error(), "propagation: "))
+}
+
+// loadingPlots returns the three panels of the loading figure.
+func loadingPlots(r loadingResult) []*plot.Plot {
+	profiles := make([]report.LoadingProfile, len(r.Profiles))
+	for i, p := range r.Profiles {
+		profiles[i] = report.LoadingProfile{PSIL: p.PSIL, XKm: p.XKm, VPU: p.VPU}
+	}
+	var q report.LoadingReactive
+	for _, p := range r.Points {
+		q.PSIL = append(q.PSIL, p.PSIL)
+		q.QsMvar = append(q.QsMvar, p.QsMvar)
+		q.QrMvar = append(q.QrMvar, p.QrMvar)
+		q.DeltaDeg = append(q.DeltaDeg, p.DeltaDeg)
+	}
+	var d report.LoadabilityData
+	for _, c := range r.Loadability.Curve {
+		d.LengthKm = append(d.LengthKm, c.LengthKm)
+		d.VoltageDropSIL = append(d.VoltageDropSIL, c.VoltageDropSIL)
+		d.StabilitySIL = append(d.StabilitySIL, c.StabilitySIL)
+		d.LoadabilitySIL = append(d.LoadabilitySIL, c.LoadabilitySIL)
+	}
+	d.ThisKm, d.ThisSIL = r.LengthKm, r.Loadability.SIL
+	d.Note = fmt.Sprintf("%.0f kV, %g Hz; 5 %% drop, 30 %% margin; no thermal limit", r.VoltageKV, r.FrequencyHz)
+	return []*plot.Plot{
+		report.LoadingProfilePlot(profiles, r.LengthKm),
+		report.LoadingReactivePlot(q),
+		report.LoadabilityPlot(d),
+	}
+}
+
+func printLoading(w io.Writer, r loadingResult) {
+	title := r.Title
+	if title == "" {
+		title = "loading"
+	}
+	fmt.Fprintf(w, "%s: %.0f kV, %g Hz, %.1f km\n", title, r.VoltageKV, r.FrequencyHz, r.LengthKm)
+	fmt.Fprintf(w, "SIL %.1f MW; largest power with both ends at 1 pu %.1f MW (%.2f SIL) at %.1f deg\n\n",
+		r.SILMW, r.PMaxMW, r.PMaxMW/r.SILMW, r.DeltaAtPMaxDeg)
+	fmt.Fprintln(w, "Both ends held at 1 pu (Qs: sending bus into the line; Qr: line into the receiving bus)")
+	fmt.Fprintf(w, "%9s %6s %7s %9s %9s %9s %7s %7s %8s %7s %8s %9s %9s\n",
+		"P MW", "P/SIL", "delta", "Qs Mvar", "Qr Mvar", "loss MW", "V mid", "V max", "at km", "V min", "at km", "Qs net", "Qr net")
+	for _, p := range r.Points {
+		fmt.Fprintf(w, "%9.1f %6.2f %7.2f %9.1f %9.1f %9.2f %7.4f %7.4f %8.1f %7.4f %8.1f %9.1f %9.1f\n",
+			p.PMW, p.PSIL, p.DeltaDeg, p.QsMvar, p.QrMvar, p.LossesMW, p.VMidPU, p.VMaxPU, p.XVMaxKm, p.VMinPU, p.XVMinKm, p.QsNetMvar, p.QrNetMvar)
+	}
+	fmt.Fprintf(w, "(delta in degrees, V in pu; net: with the study's shunts at 1 pu, %.1f Mvar absorbed at the sending end, %.1f Mvar at the receiving end)\n\n",
+		r.shuntsSend/1e6, r.shuntsRecv/1e6)
+	o := r.OpenEnd
+	fmt.Fprintln(w, "Receiving end open, sending bus at 1 pu")
+	fmt.Fprintf(w, "  line alone:                 rise %.4f pu, charging %.1f Mvar\n", o.RisePU, o.ChargingMvar)
+	fmt.Fprintf(w, "  with line-connected shunts: rise %.4f pu, charging %.1f Mvar (net, into the sending bus)\n", o.RiseWithShuntsPU, o.ChargingShuntsMvar)
+	fmt.Fprintf(w, "  from the source EMF:        |Vr/E| %.4f pu\n", o.RiseFromEMFPU)
+	fmt.Fprintf(w, "  receiving-end reactor for %.4g pu: %.1f Mvar on the bare line, %.1f Mvar beyond the study's shunts\n\n",
+		o.TargetPU, o.ReactorMvar, o.ReactorAddedMvar)
+	la := r.Loadability
+	fmt.Fprintf(w, "Loadability (%s)\n", la.Method)
+	fmt.Fprintf(w, "  limits: %.0f %% voltage drop, %.0f %% stability margin; thermal %s\n", la.VoltageDropPct, la.StabilityMarginPct, la.Thermal)
+	fmt.Fprintf(w, "  sending system: %s\n  receiving system: %s\n", la.SendingSystem, la.ReceivingSystem)
+	fmt.Fprintf(w, "  this line: %.2f SIL (%.0f MW), %s governs (voltage drop %.2f SIL, stability %.2f SIL; line angle %.1f deg, system %.1f deg at the stability limit)\n",
+		la.SIL, la.MW, la.Governs, la.VoltageDropSIL, la.StabilitySIL, la.LineAngleDeg, la.SystemAngleDeg)
+	fmt.Fprintf(w, "  %10s %12s %10s %12s\n", "length km", "voltage drop", "stability", "loadability")
+	for i, c := range la.Curve {
+		if (i+1)%10 != 0 {
+			continue
+		}
+		fmt.Fprintf(w, "  %10.0f %12.2f %10.2f %12.2f\n", c.LengthKm, c.VoltageDropSIL, c.StabilitySIL, c.LoadabilitySIL)
+	}
+	for _, n := range r.Notes {
+		fmt.Fprintf(w, "note: %s\n", n)
+	}
+	fmt.Fprintln(w, "\n"+loadingWrap(Caution, 88))
+}
+
+func loadingWrap(s string, width int) string {
+	var b strings.Builder
+	n := 0
+	for _, word := range strings.Fields(s) {
+		if n > 0 && n+1+len(word) > width {
+			b.WriteByte('\n')
+			n = 0
+		} else if n > 0 {
+			b.WriteByte(' ')
+			n++
+		}
+		b.WriteString(word)
+		n += len(word)
+	}
+	return b.String()
+}
