@@ -1,0 +1,527 @@
+package main
+
+// The switching command: three-phase statistical energisation and reclosing.
+//
+//	switchingApplicable(st)        nil, or the input error saying why the study cannot
+//	                               run (no zero-sequence data)
+//	computeSwitching(st)           every shot, the statistics (IEC 60071-2 phase-peak and
+//	                               case-peak, IEC 60071-1 base and kV), the margin to
+//	                               switching.siwl_kv, with and without arresters when the
+//	                               study has them, and the worst shot's three-phase
+//	                               waveforms (switchingResult.Worst, for COMTRADE:
+//	                               Sending/Receiving/EMF [3][]float64 in pu of
+//	                               BaseEMFKV, sampled every Worst.Step s from the first
+//	                               pole's contact; WorstShot says which shot it is)
+//	switchingFigures               one column of figures (Figures: as studied; Bare:
+//	                               without arresters)
+//	switchingPlots(r)              the distribution plot and the worst shot's waveforms
+//	                               (report.SwitchingDistributionPlot, SwitchingWaveformPlot)
+//	printSwitching(w, r)           the text summary
+
+import (
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"strings"
+	"sync"
+	"sync/atomic"
+	"time"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/vg"
+
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
+	"github.com/telegrapher/telegrapher/waves"
+)
+
+func init() {
+	register(&command{
+		name:  "switching",
+		args:  "STUDY [--json] [--plot F]",
+		short: "three-phase statistical energisation and reclosing overvoltages",
+		long: `
+Closes a three-pole breaker on the open-ended three-phase line [switching] shots times,
+with the mean closing instant uniformly random over one cycle (or fixed by close_deg)
+and each pole scattered about it (pole_sigma_ms, normal truncated at 3 sigma), with
+trapped charge (trapped_pu) and an optional pre-insertion resistor. The line is
+transposed, in modal form (ground mode on the zero-sequence constants, two aerial modes
+on the positive-sequence ones); the source has positive- and zero-sequence R-L
+impedance ([source] x0_over_x1). It needs zero-sequence data: [line] r0/l0/c0 or a
+geometry.
+
+The statistics follow IEC 60071-2 (phase-peak method: u2 exceeded by 2 % of the
+absolute phase peaks, ut = 1.25 u2 - 0.25; case-peak figures too) in the IEC 60071-1
+base us_kv*sqrt(2)/sqrt(3), and in kV. With switching.siwl_kv the margin
+(siwl / (ks * kcd * u2_kv) - 1) * 100 is given. Without [[switching.arrester]] the
+results are unprotected overvoltages; with them, both are shown side by side.
+
+Own keys of [switching]: neutral_reactor_sending_ohm, neutral_reactor_receiving_ohm
+(neutral reactor of that end's line-connected reactors, reactance at frequency_hz), and
+[[switching.arrester]] with at = "sending"|"receiving" and rated_kv (a typical
+metal-oxide curve) or vi_ka_kv = [[kA, kV], ...].
+
+--json writes shots, u2_pu, ut_pu, u2_kv, ut_kv, u2_fit_pu, case_u2_pu, case_ut_pu,
+max_pu, mean_pu, sigma_pu, phase_peaks_pu (signed, EMF base) and margin_pct; --plot
+writes the distribution on a normal-probability scale and the worst shot's waveforms.`,
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+			asJSON := fs.Bool("json", false, "write the results as one JSON document")
+			plotPath := fs.String("plot", "", "write the distribution and the worst shot to `F` (.png or .svg)")
+			return func(args []string) error {
+				if len(args) != 1 {
+					return usagef("telegrapher switching: expected one STUDY file, got %d arguments\nusage: telegrapher switching STUDY [--json] [--plot F]", len(args))
+				}
+				if *plotPath != "" {
+					if _, err := report.PlotFormat(*plotPath, "plot"); err != nil {
+						return usagef("%v", err)
+					}
+				}
+				st, err := study.Load(args[0])
+				if err != nil {
+					if study.IsInputError(err) {
+						return usagef("%v", err)
+					}
+					return err
+				}
+				res, err := computeSwitchingProgress(st, progressBar(stderr))
+				if err != nil {
+					return err
+				}
+				if *plotPath != "" {
+					format, _ := report.PlotFormat(*plotPath, "plot")
+					b, err := report.RenderLoadingFigure(switchingPlots(&res), 20*vg.Centimeter, 12*vg.Centimeter, format)
+					if err != nil {
+						return err
+					}
+					if err := report.WriteFileAtomic(*plotPath, b); err != nil {
+						return fmt.Errorf("--plot %s: %v", *plotPath, err)
+					}
+				}
+				if *asJSON {
+					return writeJSON(stdout, &res)
+				}
+				printSwitching(stdout, &res)
+				return nil
+			}
+		},
+	})
+}
+
+// switchingFigures are the statistical figures of one set of shots.
+type switchingFigures struct {
+	U2PU         float64      `json:"u2_pu"`
+	UtPU         float64      `json:"ut_pu"`
+	U2KV         float64      `json:"u2_kv"`
+	UtKV         float64      `json:"ut_kv"`
+	U2FitPU      float64      `json:"u2_fit_pu"`
+	CaseU2PU     float64      `json:"case_u2_pu"`
+	CaseUtPU     float64      `json:"case_ut_pu"`
+	MaxPU        float64      `json:"max_pu"`
+	MeanPU       float64      `json:"mean_pu"`
+	SigmaPU      float64      `json:"sigma_pu"`
+	MarginPct    *float64     `json:"margin_pct,omitempty"`
+	MaxKV        float64      `json:"max_kv"`
+	CaseU2KV     float64      `json:"case_u2_kv"`
+	Unprotected  bool         `json:"unprotected"` // no surge arresters
+	PhasePeaksPU [][3]float64 `json:"phase_peaks_pu"`
+
+	stats waves.SwitchingStats
+	toIEC float64 // EMF base to IEC 60071-1 base
+}
+
+// switchingArrester describes one arrester set in the results.
+type switchingArrester struct {
+	Name    string  `json:"name"`
+	At      string  `json:"at"`
+	RatedKV float64 `json:"rated_kv,omitempty"`
+	UpsKV   float64 `json:"ups_kv"` // residual voltage at the switching coordination current
+	UpsKA   float64 `json:"ups_ka"`
+}
+
+// switchingWorst identifies the worst shot (largest case peak of the study as given).
+type switchingWorst struct {
+	Index       int        `json:"index"`
+	CloseDeg    float64    `json:"close_deg"`
+	PoleCloseMs [3]float64 `json:"pole_close_ms"` // first contact of each pole, from the mean instant
+	PeakPU      [3]float64 `json:"peak_pu"`
+}
+
+// switchingResult is the whole switching study. The top-level figures are those of
+// the study as given (with its arresters, if any); WithoutArresters repeats them for
+// the same shots without arresters when the study has some.
+type switchingResult struct {
+	Shots        int          `json:"shots"`
+	U2PU         float64      `json:"u2_pu"`
+	UtPU         float64      `json:"ut_pu"`
+	U2KV         float64      `json:"u2_kv"`
+	UtKV         float64      `json:"ut_kv"`
+	U2FitPU      float64      `json:"u2_fit_pu"`
+	CaseU2PU     float64      `json:"case_u2_pu"`
+	CaseUtPU     float64      `json:"case_ut_pu"`
+	MaxPU        float64      `json:"max_pu"`
+	MeanPU       float64      `json:"mean_pu"`
+	SigmaPU      float64      `json:"sigma_pu"`
+	PhasePeaksPU [][3]float64 `json:"phase_peaks_pu"`
+	MarginPct    *float64     `json:"margin_pct,omitempty"`
+
+	Title           string  `json:"title,omitempty"`
+	Seed            int64   `json:"seed"`
+	BaseIECKV       float64 `json:"base_iec_kv"` // us_kv·√2/√3
+	BaseEMFKV       float64 `json:"base_emf_kv"` // voltage_kv·√2/√3
+	UsKV            float64 `json:"us_kv"`
+	SIWLKV          float64 `json:"siwl_kv,omitempty"`
+	PreinsertionOhm float64 `json:"preinsertion_ohm"`
+	PreinsertionMs  float64 `json:"preinsertion_ms,omitempty"`
+	Ks              float64 `json:"ks"`
+	Kcd             float64 `json:"kcd"`
+	KcdFigure       float64 `json:"kcd_iec_figure,omitempty"` // IEC 60071-2 Fig. 6 reading for Ups/u2, with arresters
+	// MarginArresterPct is the margin of the deterministic approach of IEC 60071-2 with
+	// arresters, siwl / (ks·Kcd·Ups) − 1 (Kcd from the figure), beside the contract's.
+	MarginArresterPct *float64            `json:"margin_arrester_pct,omitempty"`
+	Unprotected       bool                `json:"unprotected"`
+	Arresters         []switchingArrester `json:"arresters,omitempty"`
+	WithoutArresters  *switchingFigures   `json:"without_arresters,omitempty"`
+	CaseU2KV          float64             `json:"case_u2_kv"`
+	MaxKV             float64             `json:"max_kv"`
+	TimeStepUs        float64             `json:"time_step_us"`
+	ModalEvalHz       float64             `json:"modal_constants_at_hz"`
+	WorstShot         switchingWorst      `json:"worst_shot"`
+	Notes             []string            `json:"notes"`
+	Caution           string              `json:"caution"`
+
+	// Figures is the study as given; Bare the shots without arresters (the same as
+	// Figures when the study has none).
+	Figures *switchingFigures     `json:"-"`
+	Bare    *switchingFigures     `json:"-"`
+	Worst   *waves.ThreePhaseWave `json:"-"` // the worst shot's waveforms, pu of BaseEMFKV
+}
+
+// switchingApplicable returns nil when the study can run the switching study, or an
+// input error (exit 2) saying why not.
+func switchingApplicable(st *study.Study) error {
+	if len(st.Zero) == 0 {
+		return usagef("%s: line: switching needs zero-sequence data: give line.r0_ohm_per_km, l0_mh_per_km (or x0_ohm_per_km) and c0_nf_per_km (or b0_us_per_km), or [line.geometry]", st.File)
+	}
+	return nil
+}
+
+// computeSwitching runs the statistical switching study of st.
+func computeSwitching(st *study.Study) (switchingResult, error) {
+	return computeSwitchingProgress(st, nil)
+}
+
+func computeSwitchingProgress(st *study.Study, progress func(done, total int)) (switchingResult, error) {
+	var res switchingResult
+	if err := switchingApplicable(st); err != nil {
+		return res, err
+	}
+	set := st.Switching
+	opt := st.SwitchingOptions()
+	if set.SIWL > 0 && st.Us <= 245e3 {
+		return res, usagef("%s: switching.siwl_kv: switching impulse withstand levels belong to range II (us_kv > 245); this study has us_kv = %g", st.File, st.Us/1e3)
+	}
+	omega := 2 * math.Pi * st.Frequency
+	ml, err := waves.NewModalLine(st.Line, st.Zero, omega)
+	if err != nil {
+		return res, usagef("%s: line: %v", st.File, err)
+	}
+	x0 := st.Source.X0OverX1
+	if x0 == 0 {
+		x0 = 1
+	}
+	net := waves.ThreePhase{
+		Omega: omega, EMFPeak: st.Voltage * math.Sqrt2 / math.Sqrt(3), Line: ml,
+		SourceR: st.Network.Source.R, SourceL: st.Network.Source.L, X0OverX1: x0,
+		Shunts: st.Network.Shunts, NeutralL: opt.NeutralReactorL,
+	}
+	ws := waves.SwitchingSettings{
+		Shots: set.Shots, Seed: uint64(set.Seed), HasCloseDeg: set.HasCloseDeg, CloseDeg: set.CloseDeg,
+		PoleSigma: set.PoleSigma, TrappedPU: set.TrappedPU, Preinsertion: set.Preinsertion,
+		InsertTime: set.InsertTime, Duration: set.Duration, TimeStep: set.TimeStep,
+	}
+	if ws.Preinsertion == 0 {
+		ws.InsertTime = 0
+	}
+	var arr []waves.Arrester
+	for _, a := range opt.Arresters {
+		at := 1
+		if a.At == "sending" {
+			at = 0
+		}
+		arr = append(arr, waves.Arrester{Name: a.Name, At: at, VI: a.VI})
+	}
+	runs := 1
+	if len(arr) > 0 {
+		runs = 2
+	}
+	var done atomic.Int64
+	prog := func(int) {
+		if progress != nil {
+			progress(int(done.Add(1)), runs*set.Shots)
+		}
+	}
+	toIEC := st.Voltage / st.Us
+	baseIEC := st.Us * math.Sqrt2 / math.Sqrt(3)
+	run := func(n waves.ThreePhase) (*waves.SwitchingSimulator, *waves.SwitchingResult, *switchingFigures, error) {
+		sim, err := waves.NewSwitchingSimulator(n, ws)
+		if err != nil {
+			msg := strings.TrimPrefix(err.Error(), "switching: ")
+			key := "switching"
+			switch {
+			case strings.Contains(msg, "time step"):
+				key = "switching.time_step_us"
+			case strings.Contains(msg, "samples"):
+				key = "switching.duration_ms"
+			case strings.Contains(msg, "neutral reactor at the sending"):
+				key = "switching.neutral_reactor_sending_ohm"
+			case strings.Contains(msg, "neutral reactor at the receiving"):
+				key = "switching.neutral_reactor_receiving_ohm"
+			case strings.Contains(msg, "arrester"):
+				key = "switching.arrester"
+			}
+			return nil, nil, nil, usagef("%s: %s: %s", st.File, key, msg)
+		}
+		r, err := waves.Switching(n, ws, prog)
+		if err != nil {
+			return nil, nil, nil, err
+		}
+		f, err := switchingFiguresOf(r.Shots, toIEC, baseIEC, set, len(n.Arresters) == 0)
+		return sim, r, f, err
+	}
+	simBare, rBare, fBare, err := run(net)
+	if err != nil {
+		return res, err
+	}
+	sim, r, f := simBare, rBare, fBare
+	if len(arr) > 0 {
+		net.Arresters = arr
+		sim, r, f, err = run(net)
+		if err != nil {
+			return res, err
+		}
+		res.WithoutArresters = fBare
+	}
+	res.Figures, res.Bare = f, fBare
+	res.Shots = set.Shots
+	res.U2PU, res.UtPU, res.U2KV, res.UtKV = f.U2PU, f.UtPU, f.U2KV, f.UtKV
+	res.U2FitPU, res.CaseU2PU, res.CaseUtPU = f.U2FitPU, f.CaseU2PU, f.CaseUtPU
+	res.MaxPU, res.MeanPU, res.SigmaPU = f.MaxPU, f.MeanPU, f.SigmaPU
+	res.PhasePeaksPU, res.MarginPct = f.PhasePeaksPU, f.MarginPct
+	res.CaseU2KV, res.MaxKV, res.Unprotected = f.CaseU2KV, f.MaxKV, f.Unprotected
+	res.Title, res.Seed = st.Title, set.Seed
+	res.BaseIECKV, res.BaseEMFKV, res.UsKV = baseIEC/1e3, net.EMFPeak/1e3, st.Us/1e3
+	res.SIWLKV, res.Ks, res.Kcd = set.SIWL/1e3, set.Ks, set.Kcd
+	res.PreinsertionOhm = set.Preinsertion
+	if set.Preinsertion > 0 {
+		res.PreinsertionMs = set.InsertTime * 1e3
+	}
+	res.TimeStepUs, res.ModalEvalHz = r.Step*1e6, ml.EvalHz
+	res.Notes = append(res.Notes, r.Notes...)
+	res.Notes = append(res.Notes,
+		fmt.Sprintf("statistics: IEC 60071-2 phase-peak method (u2 = 98th percentile of the %d absolute phase peaks, linear interpolation; ut = 1.25 u2 - 0.25) and case-peak method (ut = 1.13 u2 - 0.13), per unit of Us*sqrt(2)/sqrt(3) = %.1f kV", 3*set.Shots, baseIEC/1e3),
+		"pole closing instants are rounded to the time step; duration counted from the last pole's last contact (resistor bypass included)")
+	// Switching coordination current: 2 kA above 362 kV, 1 kA below (IEC 60099-5, from memory).
+	ka := 1.0
+	if st.Us > 362e3 {
+		ka = 2.0
+	}
+	for _, a := range opt.Arresters {
+		ups, err := waves.SwitchingProtectiveLevel(a.VI, ka*1e3)
+		if err != nil {
+			return res, usagef("%s: switching.arrester: %v", st.File, err)
+		}
+		res.Arresters = append(res.Arresters, switchingArrester{Name: a.Name, At: a.At, RatedKV: a.RatedV / 1e3, UpsKV: ups / 1e3, UpsKA: ka})
+	}
+	if len(res.Arresters) > 0 {
+		ups := math.Inf(1)
+		for _, a := range res.Arresters {
+			ups = math.Min(ups, a.UpsKV)
+		}
+		res.KcdFigure = waves.KcdPhasePeak(ups / fBare.U2KV)
+		if set.SIWL > 0 {
+			m := waves.MarginPct(set.SIWL, set.Ks, res.KcdFigure, ups*1e3)
+			res.MarginArresterPct = &m
+		}
+		res.Notes = append(res.Notes, fmt.Sprintf("with arresters: Ups = %.0f kV at %.0f kA; IEC 60071-2 Fig. 6 (phase-peak, approximate reading) gives kcd = %.3f for Ups/u2 = %.2f (the margin uses kcd = %.3f as given)", ups, ka, res.KcdFigure, ups/fBare.U2KV, set.Kcd))
+	} else {
+		res.Notes = append(res.Notes, "unprotected overvoltages: no surge arresters in the study")
+	}
+	// Worst shot: the largest case peak of the study as given, simulated again with its
+	// waveforms recorded.
+	worst, wv := 0, -1.0
+	for i, sh := range r.Shots {
+		for k := 0; k < 3; k++ {
+			if a := math.Abs(sh.Peak[k]); a > wv {
+				worst, wv = i, a
+			}
+		}
+	}
+	shot, wave := sim.Shot(r.Shots[worst].ShotSpec, true)
+	res.Worst = wave
+	res.WorstShot = switchingWorst{Index: worst, CloseDeg: math.Mod(shot.CloseDeg, 360), PeakPU: shot.Peak}
+	for k := 0; k < 3; k++ {
+		res.WorstShot.PoleCloseMs[k] = shot.Offset[k] * 1e3
+	}
+	res.Caution = Caution
+	return res, nil
+}
+
+func switchingFiguresOf(shots []waves.Shot, toIEC, baseIEC float64, set study.SwitchingSettings, unprotected bool) (*switchingFigures, error) {
+	peaks := make([][3]float64, len(shots))
+	for i, s := range shots {
+		peaks[i] = s.Peak
+	}
+	st, err := waves.Statistics(peaks, toIEC)
+	if err != nil {
+		return nil, err
+	}
+	kv := baseIEC / 1e3
+	f := &switchingFigures{
+		U2PU: st.U2, UtPU: st.Ut, U2KV: st.U2 * kv, UtKV: st.Ut * kv, U2FitPU: st.U2Fit,
+		CaseU2PU: st.CaseU2, CaseUtPU: st.CaseUt, MaxPU: st.Max, MeanPU: st.Mean, SigmaPU: st.Sigma,
+		MaxKV: st.Max * kv, CaseU2KV: st.CaseU2 * kv, Unprotected: unprotected,
+		PhasePeaksPU: peaks, stats: st, toIEC: toIEC,
+	}
+	if set.SIWL > 0 {
+		m := waves.MarginPct(set.SIWL, set.Ks, set.Kcd, st.U2*baseIEC)
+		f.MarginPct = &m
+	}
+	return f, nil
+}
+
+// switchingSample returns the distribution-plot sample of a set of figures.
+func switchingSample(f *switchingFigures, label string) report.SwitchingSample {
+	s := report.SwitchingSample{Label: label, U2: f.U2PU, Ut: f.UtPU, Mean: f.MeanPU, Sigma: f.SigmaPU}
+	for _, p := range f.PhasePeaksPU {
+		for _, v := range p {
+			s.Peaks = append(s.Peaks, math.Abs(v)*f.toIEC)
+		}
+	}
+	return s
+}
+
+// switchingPlots returns the distribution plot (with and without arresters when the
+// study has them) and the worst shot's receiving-end waveforms.
+func switchingPlots(r *switchingResult) []*plot.Plot {
+	var samples []report.SwitchingSample
+	if r.WithoutArresters != nil {
+		samples = append(samples, switchingSample(r.WithoutArresters, "without arresters (unprotected)"))
+		samples = append(samples, switchingSample(r.Figures, "with arresters"))
+	} else {
+		samples = append(samples, switchingSample(r.Figures, "phase peaks (unprotected)"))
+	}
+	title := fmt.Sprintf("Statistical switching, %d shots: absolute phase peaks at the open end", r.Shots)
+	plots := []*plot.Plot{report.SwitchingDistributionPlot(samples, title)}
+	if w := r.Worst; w != nil && len(w.Receiving[0]) > 0 {
+		t := make([]float64, len(w.Receiving[0]))
+		for i := range t {
+			t[i] = float64(i) * w.Step * 1e3
+		}
+		var closeMs [3]float64
+		for k := 0; k < 3; k++ {
+			closeMs[k] = r.WorstShot.PoleCloseMs[k] - w.Start*1e3
+		}
+		last := -1.0 // no resistor: the last contact is the last pole's closing
+		if r.PreinsertionOhm > 0 {
+			last = (w.LastContact - w.Start) * 1e3
+		}
+		which := "unprotected"
+		if r.WithoutArresters != nil {
+			which = "with arresters"
+		}
+		wt := fmt.Sprintf("Worst shot (#%d, %s, close at %.0f°): receiving-end voltages", r.WorstShot.Index+1, which, r.WorstShot.CloseDeg)
+		plots = append(plots, report.SwitchingWaveformPlot(t, w.Receiving, closeMs, last, wt))
+	}
+	return plots
+}
+
+func printSwitching(w io.Writer, r *switchingResult) {
+	if r.Title != "" {
+		fmt.Fprintln(w, r.Title)
+	}
+	fmt.Fprintf(w, "Statistical switching: %d shots, seed %d, time step %.3g µs\n", r.Shots, r.Seed, r.TimeStepUs)
+	fmt.Fprintf(w, "Base: IEC 60071-1 Us*sqrt(2)/sqrt(3) = %.1f kV (EMF base %.1f kV)\n\n", r.BaseIECKV, r.BaseEMFKV)
+	cols := []*switchingFigures{r.Figures}
+	heads := []string{"unprotected"}
+	if r.WithoutArresters != nil {
+		cols = []*switchingFigures{r.WithoutArresters, r.Figures}
+		heads = []string{"no arresters", "with arresters"}
+	}
+	fmt.Fprintf(w, "%-32s", "")
+	for _, h := range heads {
+		fmt.Fprintf(w, "%18s", h)
+	}
+	fmt.Fprintln(w)
+	row := func(name string, pu func(*switchingFigures) float64, kv func(*switchingFigures) float64) {
+		fmt.Fprintf(w, "%-32s", name)
+		for _, c := range cols {
+			if kv != nil {
+				fmt.Fprintf(w, "%8.3f pu %4.0f kV", pu(c), kv(c))
+			} else {
+				fmt.Fprintf(w, "%15.3f pu", pu(c))
+			}
+		}
+		fmt.Fprintln(w)
+	}
+	row("u2 (2 %, phase-peak)", func(f *switchingFigures) float64 { return f.U2PU }, func(f *switchingFigures) float64 { return f.U2KV })
+	row("ut (truncation, phase-peak)", func(f *switchingFigures) float64 { return f.UtPU }, func(f *switchingFigures) float64 { return f.UtKV })
+	row("u2 of a normal fit", func(f *switchingFigures) float64 { return f.U2FitPU }, nil)
+	row("u2 (case-peak)", func(f *switchingFigures) float64 { return f.CaseU2PU }, func(f *switchingFigures) float64 { return f.CaseU2KV })
+	row("ut (case-peak)", func(f *switchingFigures) float64 { return f.CaseUtPU }, nil)
+	row("largest phase peak", func(f *switchingFigures) float64 { return f.MaxPU }, func(f *switchingFigures) float64 { return f.MaxKV })
+	row("mean of phase peaks", func(f *switchingFigures) float64 { return f.MeanPU }, nil)
+	row("sigma of phase peaks", func(f *switchingFigures) float64 { return f.SigmaPU }, nil)
+	if r.SIWLKV > 0 {
+		fmt.Fprintf(w, "%-32s", fmt.Sprintf("margin to SIWL %.0f kV", r.SIWLKV))
+		for _, c := range cols {
+			fmt.Fprintf(w, "%16.1f %%", *c.MarginPct)
+		}
+		fmt.Fprintf(w, "\n  (ks %.3g, kcd %.3g: margin = siwl / (ks*kcd*u2) - 1)\n", r.Ks, r.Kcd)
+	}
+	for _, a := range r.Arresters {
+		fmt.Fprintf(w, "Arrester %q at the %s end: Ups %.0f kV at %.0f kA\n", a.Name, a.At, a.UpsKV, a.UpsKA)
+	}
+	if r.MarginArresterPct != nil {
+		fmt.Fprintf(w, "IEC 60071-2 deterministic margin with arresters: siwl / (ks*Kcd*Ups) - 1 = %.1f %% (Kcd %.3f from Fig. 6, approximate)\n", *r.MarginArresterPct, r.KcdFigure)
+	}
+	ws := r.WorstShot
+	fmt.Fprintf(w, "\nWorst shot #%d: close at %.1f deg, poles at %+.2f, %+.2f, %+.2f ms; peaks %+.3f, %+.3f, %+.3f pu (EMF base)\n",
+		ws.Index+1, ws.CloseDeg, ws.PoleCloseMs[0], ws.PoleCloseMs[1], ws.PoleCloseMs[2], ws.PeakPU[0], ws.PeakPU[1], ws.PeakPU[2])
+	fmt.Fprintln(w)
+	for _, n := range r.Notes {
+		fmt.Fprintln(w, "Note: "+n)
+	}
+	fmt.Fprintln(w, "\n"+Caution)
+}
+
+// progressBar returns a progress callback drawing a bar on stderr when it is a
+// terminal, or nil.
+func progressBar(stderr io.Writer) func(done, total int) {
+	f, ok := stderr.(*os.File)
+	if !ok {
+		return nil
+	}
+	info, err := f.Stat()
+	if err != nil || info.Mode()&os.ModeCharDevice == 0 {
+		return nil
+	}
+	var mu sync.Mutex
+	var last int64
+	return func(done, total int) {
+		mu.Lock()
+		defer mu.Unlock()
+		now := time.Now().UnixMilli()
+		if done < total && now-last < 100 {
+			return
+		}
+		last = now
+		const width = 40
+		n := done * width / total
+		fmt.Fprintf(f, "\r[%s%s] %d/%d shots", strings.Repeat("#", n), strings.Repeat(".", width-n), done, total)
+		if done == total {
+			fmt.Fprint(f, "\r\033[K")
+		}
+	}
+}

@@ -1,0 +1,162 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// An invented 400 kV, 320 km study with zero-sequence constants and a receiving-end
+// reactor.
+const switchingStudy = `
+title = "switching test line"
+frequency_hz = 50
+voltage_kv = 400
+us_kv = 420
+[line]
+length_km = 320
+r_ohm_per_km = 0.025
+l_mh_per_km = 0.95
+c_nf_per_km = 12.0
+r0_ohm_per_km = 0.25
+l0_mh_per_km = 3.0
+c0_nf_per_km = 7.5
+[source]
+short_circuit_mva = 15000
+x_over_r = 12
+x0_over_x1 = 1.2
+[[shunt]]
+at = "receiving"
+connection = "line"
+mvar = 150
+[switching]
+shots = 60
+seed = 5
+siwl_kv = 1050
+`
+
+func writeSwitchingStudy(t *testing.T, body string) string {
+	t.Helper()
+	p := filepath.Join(t.TempDir(), "study.toml")
+	if err := os.WriteFile(p, []byte(body), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+func TestSwitchingCommandJSON(t *testing.T) {
+	t.Parallel()
+	const tol = 1e-9 // the relations are computed, not rounded
+	for _, tc := range []struct {
+		name      string
+		extra     string
+		arresters bool
+	}{
+		{"unprotected", "", false},
+		{"with arresters and neutral reactor", "neutral_reactor_receiving_ohm = 300\n[[switching.arrester]]\nat = \"receiving\"\nrated_kv = 336\n", true},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			path := writeSwitchingStudy(t, switchingStudy+tc.extra)
+			plotPath := filepath.Join(filepath.Dir(path), "sw.png")
+			var out, errb bytes.Buffer
+			if code := run([]string{"switching", "--json", path, "--plot", plotPath}, &out, &errb); code != 0 {
+				t.Fatalf("exit %d: %s", code, errb.String())
+			}
+			var doc map[string]any
+			if err := json.Unmarshal(out.Bytes(), &doc); err != nil {
+				t.Fatalf("not one JSON document: %v", err)
+			}
+			for _, k := range []string{"shots", "u2_pu", "ut_pu", "u2_kv", "ut_kv", "u2_fit_pu", "case_u2_pu", "case_ut_pu", "max_pu", "mean_pu", "sigma_pu", "phase_peaks_pu", "margin_pct"} {
+				if _, ok := doc[k]; !ok {
+					t.Errorf("missing %s", k)
+				}
+			}
+			f := func(k string) float64 { v, _ := doc[k].(float64); return v }
+			if math.Abs(f("ut_pu")-(1.25*f("u2_pu")-0.25)) > tol {
+				t.Errorf("ut %g != 1.25 u2 - 0.25 (u2 %g)", f("ut_pu"), f("u2_pu"))
+			}
+			base := 420 * math.Sqrt2 / math.Sqrt(3)
+			if math.Abs(f("u2_kv")-f("u2_pu")*base) > tol*base {
+				t.Errorf("u2_kv %g != u2_pu × %g", f("u2_kv"), base)
+			}
+			if m := (1050/(1.15*1.1*f("u2_kv")) - 1) * 100; math.Abs(f("margin_pct")-m) > tol {
+				t.Errorf("margin %g, want %g", f("margin_pct"), m)
+			}
+			peaks, _ := doc["phase_peaks_pu"].([]any)
+			if len(peaks) != 60 {
+				t.Fatalf("%d phase peaks, want 60 shots", len(peaks))
+			}
+			// max_pu is the largest absolute phase peak in the IEC base (EMF base × 400/420)
+			var mx float64
+			for _, p := range peaks {
+				for _, v := range p.([]any) {
+					mx = math.Max(mx, math.Abs(v.(float64)))
+				}
+			}
+			if math.Abs(f("max_pu")-mx*400/420) > tol {
+				t.Errorf("max_pu %g, phase peaks give %g", f("max_pu"), mx*400/420)
+			}
+			_, hasBare := doc["without_arresters"]
+			if hasBare != tc.arresters || doc["unprotected"] != !tc.arresters {
+				t.Errorf("without_arresters present %v, unprotected %v", hasBare, doc["unprotected"])
+			}
+			if tc.arresters {
+				bare := doc["without_arresters"].(map[string]any)
+				if f("u2_pu") > bare["u2_pu"].(float64)+tol {
+					t.Errorf("arresters raised u2 from %g to %g", bare["u2_pu"], f("u2_pu"))
+				}
+			}
+			if st, err := os.Stat(plotPath); err != nil || st.Size() < 1000 {
+				t.Errorf("plot not written: %v", err)
+			}
+		})
+	}
+}
+
+func TestSwitchingCommandText(t *testing.T) {
+	t.Parallel()
+	path := writeSwitchingStudy(t, switchingStudy)
+	var out, errb bytes.Buffer
+	if code := run([]string{"switching", path}, &out, &errb); code != 0 {
+		t.Fatalf("exit %d: %s", code, errb.String())
+	}
+	for _, s := range []string{"u2 (2 %, phase-peak)", "unprotected", "margin to SIWL", "Caution"} {
+		if !strings.Contains(out.String(), s) {
+			t.Errorf("summary lacks %q:\n%s", s, out.String())
+		}
+	}
+	if errb.Len() != 0 {
+		t.Errorf("stderr not empty (not a terminal): %q", errb.String())
+	}
+}
+
+func TestSwitchingCommandErrors(t *testing.T) {
+	t.Parallel()
+	noZero := strings.NewReplacer("r0_ohm_per_km = 0.25\n", "", "l0_mh_per_km = 3.0\n", "", "c0_nf_per_km = 7.5\n", "").Replace(switchingStudy)
+	for _, tc := range []struct {
+		name, body, want string
+	}{
+		{"no zero sequence", noZero, "line: switching needs zero-sequence data"},
+		{"siwl in range I", strings.Replace(strings.Replace(switchingStudy, "us_kv = 420", "us_kv = 245", 1), "voltage_kv = 400", "voltage_kv = 230", 1), "switching.siwl_kv"},
+		{"bad shots", strings.Replace(switchingStudy, "shots = 60", "shots = 0", 1), "switching.shots"},
+		{"step above travel time", strings.Replace(switchingStudy, "shots = 60", "shots = 2\ntime_step_us = 2000", 1), "switching.time_step_us: time step"},
+		{"neutral without reactor", strings.Replace(switchingStudy, "shots = 60", "shots = 2\nneutral_reactor_sending_ohm = 100", 1), "switching.neutral_reactor_sending_ohm"},
+	} {
+		path := writeSwitchingStudy(t, tc.body)
+		var out, errb bytes.Buffer
+		if code := run([]string{"switching", path, "--json"}, &out, &errb); code != 2 {
+			t.Errorf("%s: exit %d, want 2 (%s)", tc.name, code, errb.String())
+		}
+		if !strings.Contains(errb.String(), tc.want) || !strings.Contains(errb.String(), "study.toml") {
+			t.Errorf("%s: message %q lacks %q", tc.name, errb.String(), tc.want)
+		}
+		if out.Len() != 0 {
+			t.Errorf("%s: stdout not empty", tc.name)
+		}
+	}
+}
