@@ -1,6 +1,8 @@
 package freqscan
 
 import (
+	"math"
+
 	"github.com/telegrapher/telegrapher/propagation"
 )
 
@@ -152,22 +154,73 @@ func (n Network) At(s complex128) Response {
 }
 
 func (n Network) respond(s complex128, p propagation.TwoPort) Response {
+	k := 1.0
+	if p.LogScale != 0 {
+		k = math.Exp(-p.LogScale)
+	}
+	return n.respondScaled(s, p.A, p.B, p.C, p.D, k)
+}
+
+// respondScaled forms the response from the line's ABCD elements scaled by 1/k (the true
+// elements are a/k, b/k, ...; k > 0 may underflow to 0 on an electrically long lossy
+// line, where Vr/Vs and Vr/E are then 0). Every ratio is formed so that a zero
+// denominator gives an infinite value, never NaN; Vr/E is formed directly rather than
+// as (Vs/E)(Vr/Vs), which keeps it finite at a sending-bus series resonance with an
+// ideal source.
+func (n Network) respondScaled(s, a, b, c, d complex128, k float64) Response {
 	ysl, ysb, yrl, yrb := n.Admittances(s)
 	yr := yrl + yrb
 	zsrc := n.Source.Impedance(s)
-	num := p.A + p.B*yr
-	den := (p.C + p.D*yr) + ysl*num
-	vsE := num / (num + zsrc*(den+ysb*num))
-	vrVs := p.VoltageRatio(yr)
+	num := a + b*yr
+	den := (c + d*yr) + ysl*num
+	all := num + zsrc*(den+ysb*num)
+	kc := complex(k, 0)
 	var r Response
-	r.VrVs = vrVs
-	r.VsE = vsE
-	r.VrE = vsE * vrVs
-	r.ZIn = num / den
-	r.ZSending = zsrc * vsE
+	r.VrVs = ratio(kc, num)
+	r.VsE = ratio(num, all)
+	r.VrE = ratio(kc, all)
+	r.ZIn = ratio(num, den)
+	r.ZSending = ratio(zsrc*num, all)
 	// Sending side seen from the line: source in parallel with all sending shunts.
-	zs := zsrc / (1 + zsrc*(ysl+ysb))
-	nOut := p.D*zs + p.B
-	r.ZReceiving = nOut / ((p.C*zs + p.A) + yr*nOut)
+	zs := ratio(zsrc, 1+zsrc*(ysl+ysb))
+	nOut := d*zs + b
+	r.ZReceiving = ratio(nOut, (c*zs+a)+yr*nOut)
 	return r
+}
+
+// ratio returns x/y, with a zero y giving +Inf (an unbounded value: a resonance of a
+// lossless network hit exactly) and 0/0 giving 0 rather than NaN.
+func ratio(x, y complex128) complex128 {
+	if y == 0 {
+		if x == 0 {
+			return 0
+		}
+		return complex(math.Inf(1), 0)
+	}
+	return x / y
+}
+
+// Lossless reports whether the network has no loss at the frequency f (Hz): no source
+// resistance, no shunt or load resistance, and no per-length resistance or conductance
+// in any line section at s = j2πf. A lossless network's resonances are unbounded.
+func (n Network) Lossless(f float64) bool {
+	if n.Source.R != 0 {
+		return false
+	}
+	for _, sh := range n.Shunts {
+		if sh.R != 0 && (sh.OnLine || sh.End == Sending || !n.FarEndOpen) {
+			return false
+		}
+	}
+	if !n.FarEndOpen && n.Load.R > 0 {
+		return false
+	}
+	s := complex(0, 2*math.Pi*f)
+	for _, l := range n.Line {
+		z, y := l.At(s)
+		if real(z) != 0 || real(y) != 0 {
+			return false
+		}
+	}
+	return true
 }

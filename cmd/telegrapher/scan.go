@@ -1,0 +1,662 @@
+package main
+
+// The scan command: voltage magnification and driving-point impedances over frequency,
+// resonance peaks, harmonic screening and the source-strength map.
+//
+//	computeScan(st) (scanResult, error)  -> every number the command shows (the report
+//	                                        command reuses it); scanResult is also the
+//	                                        --json document
+//	scanPlotData(st, res)                -> report.ScanPlotData for report.ScanPlot
+//	scanMapData(st, res)                 -> report.ScanMapData for report.ScanMapPlot
+//	scanTable(res)                       -> the --csv table (units in column names)
+//	printScan(w, st, res)                -> the terminal summary
+
+import (
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"math/cmplx"
+	"strings"
+
+	"gonum.org/v1/plot/vg"
+
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
+	"github.com/telegrapher/telegrapher/freqscan"
+	"github.com/telegrapher/telegrapher/propagation"
+)
+
+func init() {
+	register(&command{
+		name:  "scan",
+		args:  "STUDY [--json] [--csv F] [--plot F] [--map F]",
+		short: "harmonic scan: voltage magnification, resonances, harmonic screening",
+		long: `Scans the network of the study (source, shunts, line, load, every element in
+service) over the frequency grid of [scan]: the gain |Vr/E| of the receiving-end voltage
+over the source EMF, |Vr/Vs| and the driving-point impedances. It reports every resonance
+peak (frequency refined between grid points, harmonic order, gain, -3 dB bandwidth and Q),
+the parallel and series resonances of the driving-point impedances, and screens every
+integer harmonic: watched harmonics (scan.watch_harmonics) are flagged when the gain
+within +-scan.watch_band_pct of them exceeds scan.gain_limit, and each harmonic's
+receiving-end level (background x gain) is set against its planning level (default:
+IEC TR 61000-3-6 indicative HV-EHV levels). Harmonics that are multiples of 3 are zero
+sequence in a balanced system: they are screened on the zero-sequence network when the
+study gives zero-sequence data, and marked "positive-sequence only" otherwise.
+
+--map writes a heat map of the gain over frequency and source short-circuit level
+(scan.short_circuit_mva_range, X/R kept; default 0.25 to 4 times the study's level).
+
+The model: the source resistance is constant with frequency, inductances and
+capacitances keep their values; per-length constants given directly are constant with
+frequency. An exactly lossless network has unbounded resonances: they are reported as
+"unbounded" (JSON null, listed in "overflow").`,
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+			asJSON := fs.Bool("json", false, "write the results as one JSON document")
+			csvPath := fs.String("csv", "", "write the scan points to this CSV file")
+			plotPath := fs.String("plot", "", "write the gain plot (PNG or SVG by extension)")
+			mapPath := fs.String("map", "", "write the source-strength heat map (PNG or SVG)")
+			return func(args []string) error {
+				if len(args) != 1 {
+					return usagef("scan: expected one study file, got %d arguments\nusage: telegrapher scan %s", len(args), "STUDY [--json] [--csv F] [--plot F] [--map F]")
+				}
+				for _, f := range []struct{ path, name string }{{*plotPath, "plot"}, {*mapPath, "map"}} {
+					if f.path != "" {
+						if _, err := report.PlotFormat(f.path, f.name); err != nil {
+							return usagef("%v", err)
+						}
+					}
+				}
+				st, err := study.Load(args[0])
+				if err != nil {
+					return err
+				}
+				return runScan(st, stdout, *asJSON, *csvPath, *plotPath, *mapPath)
+			}
+		},
+	})
+}
+
+func runScan(st *study.Study, stdout io.Writer, asJSON bool, csvPath, plotPath, mapPath string) error {
+	res, err := computeScan(st)
+	if err != nil {
+		return err
+	}
+	if mapPath != "" && res.SourceStrength == nil {
+		m, err := scanStrength(st, &res, true)
+		if err != nil {
+			return err
+		}
+		res.SourceStrength = m
+	}
+	if csvPath != "" {
+		t, err := scanTable(res)
+		if err != nil {
+			return err
+		}
+		if err := report.WriteFileAtomic(csvPath, t.CSV()); err != nil {
+			return fmt.Errorf("--csv %s: %v", csvPath, err)
+		}
+	}
+	if plotPath != "" {
+		p, err := report.ScanPlot(scanPlotData(st, res))
+		if err != nil {
+			return err
+		}
+		if err := report.SavePlot(p, 26*vg.Centimeter, 15*vg.Centimeter, plotPath); err != nil {
+			return fmt.Errorf("--plot %s: %v", plotPath, err)
+		}
+	}
+	if mapPath != "" {
+		p, err := report.ScanMapPlot(scanMapData(st, res))
+		if err != nil {
+			return err
+		}
+		if err := report.SavePlot(p, 26*vg.Centimeter, 16*vg.Centimeter, mapPath); err != nil {
+			return fmt.Errorf("--map %s: %v", mapPath, err)
+		}
+	}
+	if asJSON {
+		return writeJSON(stdout, res)
+	}
+	printScan(stdout, st, res)
+	return nil
+}
+
+// scanResult is everything the scan command computes; it is also the --json document
+// (contract: points, peaks, zero_sequence of the same shape; the rest are extra keys).
+type scanResult struct {
+	Title       string  `json:"title,omitempty"`
+	FrequencyHz float64 `json:"frequency_hz"`
+	Model       string  `json:"model"`
+	Grid        string  `json:"grid"`
+	FMinHz      float64 `json:"f_min_hz"`
+	FMaxHz      float64 `json:"f_max_hz"`
+	// The positive sequence (the contract's points and peaks, at the top level).
+	Points              []scanPoint      `json:"points"`
+	Peaks               []scanPeak       `json:"peaks"`
+	ImpedanceResonances []scanZRes       `json:"impedance_resonances"`
+	ZeroSequence        *scanSequence    `json:"zero_sequence,omitempty"`
+	Harmonics           []scanHarmonic   `json:"harmonics"`
+	GainLimit           float64          `json:"gain_limit"`
+	WatchBandPct        float64          `json:"watch_band_pct"`
+	WatchHarmonics      []int            `json:"watch_harmonics"`
+	PlanningSource      string           `json:"planning_levels"`
+	Flags               []string         `json:"flags"`
+	SourceStrength      *scanStrengthMap `json:"source_strength,omitempty"`
+	Caution             string           `json:"caution"`
+
+	// scanSequence is the positive sequence again, in the shape of ZeroSequence (the
+	// report command reads it; the JSON takes the exported fields above).
+	scanSequence scanSequence
+
+	pos, zero []freqscan.Point      // the scans, for plots and CSV
+	posPeaks  []freqscan.Peak       // library peaks (positive)
+	zeroPeaks []freqscan.Peak       // library peaks (zero)
+	screen    freqscan.Screening    // the screening
+	strength  *freqscan.StrengthMap // the map, when computed
+}
+
+// scanSequence is the result of one sequence network.
+type scanSequence struct {
+	Points              []scanPoint `json:"points"`
+	Peaks               []scanPeak  `json:"peaks"`
+	ImpedanceResonances []scanZRes  `json:"impedance_resonances"`
+}
+
+type scanPoint struct {
+	FHz         float64    `json:"f_hz"`
+	Harmonic    float64    `json:"harmonic"`
+	Gain        float64    `json:"gain"`
+	GainLine    float64    `json:"gain_line"`
+	ZInOhm      complex128 `json:"z_in_ohm"`
+	GainSending float64    `json:"gain_sending"`
+	ZSendingOhm complex128 `json:"z_sending_ohm"`
+	ZRecvOhm    complex128 `json:"z_receiving_ohm"`
+}
+
+type scanPeak struct {
+	FHz         float64 `json:"f_hz"`
+	Harmonic    float64 `json:"harmonic"`
+	Gain        float64 `json:"gain"` // null (overflow) when unbounded
+	Unbounded   bool    `json:"unbounded"`
+	BandwidthHz float64 `json:"bandwidth_hz,omitempty"`
+	FLowHz      float64 `json:"f_low_hz,omitempty"`
+	FHighHz     float64 `json:"f_high_hz,omitempty"`
+	Q           float64 `json:"q,omitempty"`
+}
+
+type scanZRes struct {
+	Bus       string  `json:"bus"`  // "in", "sending" or "receiving"
+	Kind      string  `json:"kind"` // "parallel" (|Z| maximum) or "series" (|Z| minimum)
+	FHz       float64 `json:"f_hz"`
+	Harmonic  float64 `json:"harmonic"`
+	ZOhm      float64 `json:"z_abs_ohm"` // null (overflow) when unbounded
+	Unbounded bool    `json:"unbounded"`
+}
+
+type scanHarmonic struct {
+	Order                int       `json:"order"`
+	FHz                  float64   `json:"f_hz"`
+	Sequence             string    `json:"sequence"`
+	Gain                 float64   `json:"gain"`
+	Watched              bool      `json:"watched"`
+	BandGain             float64   `json:"band_gain,omitempty"`
+	OverLimit            bool      `json:"over_limit"`
+	NearPeaksHz          []float64 `json:"near_peaks_hz,omitempty"`
+	PlanningPct          float64   `json:"planning_pct"`
+	BackgroundPct        *float64  `json:"background_pct,omitempty"`
+	ReceivingPct         *float64  `json:"receiving_pct,omitempty"`
+	ExceedsPlanning      bool      `json:"exceeds_planning"`
+	AllowedBackgroundPct float64   `json:"allowed_background_pct,omitempty"`
+}
+
+type scanStrengthMap struct {
+	XOverR          float64             `json:"x_over_r"` // null when purely inductive
+	ShortCircuitMVA []float64           `json:"short_circuit_mva"`
+	First           []scanStrengthFirst `json:"first_resonance"`
+	MapFreqHz       []float64           `json:"map_f_hz"`
+	MapGain         [][]float64         `json:"map_gain"`
+}
+
+type scanStrengthFirst struct {
+	ShortCircuitMVA float64 `json:"short_circuit_mva"`
+	FHz             float64 `json:"f_hz,omitempty"`
+	Harmonic        float64 `json:"harmonic,omitempty"`
+	Gain            float64 `json:"gain,omitempty"`
+	Unbounded       bool    `json:"unbounded"`
+	None            bool    `json:"none,omitempty"` // no resonance within the band
+}
+
+// mapColumns is the number of frequencies of the source-strength map.
+const mapColumns = 500
+
+// computeScan scans the study's positive-sequence network (and the zero-sequence one
+// when the study has it), finds the resonances, screens the harmonics and, when the
+// study sets scan.short_circuit_mva_range, computes the source-strength map.
+func computeScan(st *study.Study) (scanResult, error) {
+	sc := st.Scan
+	if !(sc.FMin > 0 && sc.FMax > sc.FMin) || sc.Points < 2 {
+		return scanResult{}, usagef("%s: scan: the grid needs 0 < f_min_hz < f_max_hz and points >= 2, got %g, %g, %d", st.File, sc.FMin, sc.FMax, sc.Points)
+	}
+	var freqs []float64
+	grid := "linear"
+	if sc.Log {
+		freqs, grid = freqscan.LogGrid(nil, sc.FMin, sc.FMax, sc.Points), "log"
+	} else {
+		freqs = freqscan.LinearGrid(nil, sc.FMin, sc.FMax, sc.Points)
+	}
+	f0 := st.Frequency
+	res := scanResult{
+		Title: st.Title, FrequencyHz: f0, Model: scanModel(st), Grid: grid,
+		FMinHz: sc.FMin, FMaxHz: sc.FMax, Caution: Caution,
+		PlanningSource: "IEC TR 61000-3-6 indicative HV-EHV planning levels (from memory) unless scan.planning_pct sets them",
+	}
+	res.pos = freqscan.Scan(nil, st.Network, freqs)
+	res.posPeaks = freqscan.Peaks(st.Network, res.pos)
+	p := sequenceResult(st.Network, res.pos, res.posPeaks, f0)
+	res.Points, res.Peaks, res.ImpedanceResonances = p.Points, p.Peaks, p.ImpedanceResonances
+	res.scanSequence = p
+	var zeroNet *freqscan.Network
+	if st.ZeroNetwork != nil {
+		zeroNet = st.ZeroNetwork
+		res.zero = freqscan.Scan(nil, *zeroNet, freqs)
+		res.zeroPeaks = freqscan.Peaks(*zeroNet, res.zero)
+		z := sequenceResult(*zeroNet, res.zero, res.zeroPeaks, f0)
+		res.ZeroSequence = &z
+	}
+	res.screen = freqscan.Screen(st.Network, res.pos, res.posPeaks, zeroNet, res.zero, res.zeroPeaks, freqscan.ScreenSettings{
+		Fundamental: f0, FMax: sc.FMax, Watch: sc.WatchHarmonics, GainLimit: sc.GainLimit,
+		WatchBand: sc.WatchBand, BackgroundPct: sc.BackgroundPct, PlanningPct: sc.PlanningPct,
+	})
+	res.GainLimit = res.screen.GainLimit
+	res.WatchBandPct = res.screen.WatchBand * 100
+	res.WatchHarmonics = res.screen.Watch
+	for _, r := range res.screen.Rows {
+		h := scanHarmonic{Order: r.Order, FHz: r.F, Sequence: string(r.Sequence), Gain: r.Gain,
+			Watched: r.Watched, BandGain: r.BandGain, OverLimit: r.OverLimit, PlanningPct: r.PlanPct,
+			ExceedsPlanning: r.Exceeds, AllowedBackgroundPct: r.AllowedBackground}
+		for _, p := range r.NearPeaks {
+			h.NearPeaksHz = append(h.NearPeaksHz, p.F)
+		}
+		if r.HasBackground {
+			bg, amp := r.Background, r.Amplified
+			h.BackgroundPct, h.ReceivingPct = &bg, &amp
+		}
+		res.Harmonics = append(res.Harmonics, h)
+	}
+	res.Flags = scanFlags(res.screen, f0)
+	if sc.ShortCircuitRange[1] > 0 {
+		m, err := scanStrength(st, &res, false)
+		if err != nil {
+			return scanResult{}, err
+		}
+		res.SourceStrength = m
+	}
+	return res, nil
+}
+
+// scanModel states the model the scan assumes.
+func scanModel(st *study.Study) string {
+	direct := true
+	for _, l := range st.Line {
+		if _, ok := l.Constants.(propagation.RLGC); !ok {
+			direct = false
+		}
+	}
+	line := "per-length line constants constant with frequency (given directly)"
+	if !direct {
+		line = "per-length line constants from the geometry, frequency dependent (skin effect, earth return)"
+	}
+	src := "source resistance constant with frequency, source inductance fixed"
+	if st.Network.Source.Ideal() {
+		src = "ideal source (zero impedance)"
+	}
+	return src + "; shunt and load inductances and capacitances fixed (reactances scale with frequency); " +
+		line + "; exact long-line two-port; every element in service"
+}
+
+func sequenceResult(n freqscan.Network, pts []freqscan.Point, peaks []freqscan.Peak, f0 float64) scanSequence {
+	var s scanSequence
+	s.Points = make([]scanPoint, len(pts))
+	for i, p := range pts {
+		s.Points[i] = scanPoint{FHz: p.F, Harmonic: p.F / f0, Gain: p.Gain, GainLine: p.GainLine, ZInOhm: p.ZIn,
+			GainSending: p.GainSending, ZSendingOhm: p.ZSending, ZRecvOhm: p.ZReceiving}
+	}
+	s.Peaks = []scanPeak{}
+	for _, p := range peaks {
+		s.Peaks = append(s.Peaks, scanPeak{FHz: p.F, Harmonic: p.F / f0, Gain: p.Gain, Unbounded: p.Unbounded,
+			BandwidthHz: p.Bandwidth, FLowHz: p.FLow, FHighHz: p.FHigh, Q: p.Q})
+	}
+	s.ImpedanceResonances = []scanZRes{}
+	for _, r := range freqscan.ImpedanceResonances(n, pts) {
+		kind := "series"
+		if r.Parallel {
+			kind = "parallel"
+		}
+		s.ImpedanceResonances = append(s.ImpedanceResonances, scanZRes{Bus: r.Bus, Kind: kind, FHz: r.F,
+			Harmonic: r.F / f0, ZOhm: r.Ohm, Unbounded: r.Unbounded})
+	}
+	return s
+}
+
+// fmtGain writes a gain, "unbounded" for +Inf.
+func fmtGain(g float64) string {
+	if math.IsInf(g, 1) {
+		return "unbounded"
+	}
+	return fmt.Sprintf("%.3g", g)
+}
+
+// scanFlags words the screening's flags.
+func scanFlags(sc freqscan.Screening, f0 float64) []string {
+	flags := []string{}
+	for _, r := range sc.Flags {
+		seq := ""
+		switch r.Sequence {
+		case freqscan.Zero:
+			seq = " (zero sequence)"
+		case freqscan.PositiveOnly:
+			seq = " (positive-sequence only: no zero-sequence data)"
+		}
+		if r.OverLimit {
+			var near []string
+			for _, p := range r.NearPeaks {
+				near = append(near, fmt.Sprintf("%.4g Hz (h %.2f, gain %s)", p.F, p.F/f0, fmtGain(p.Gain)))
+			}
+			what := "no peak inside the band, the flank of a resonance"
+			if len(near) > 0 {
+				what = "resonance at " + strings.Join(near, ", ")
+			}
+			flags = append(flags, fmt.Sprintf("h%d%s: gain within ±%.0f %% reaches %s > limit %g; %s",
+				r.Order, seq, sc.WatchBand*100, fmtGain(r.BandGain), sc.GainLimit, what))
+		}
+		if r.Exceeds {
+			flags = append(flags, fmt.Sprintf("h%d%s: receiving-end level %s %% (background %.3g %% x gain %s) exceeds the planning level %.3g %%",
+				r.Order, seq, fmtGain(r.Amplified), r.Background, fmtGain(r.Gain), r.PlanPct))
+		}
+	}
+	return flags
+}
+
+// scanStrength computes the source-strength map. Without scan.short_circuit_mva_range
+// (fallback set, for --map) it spans 0.25 to 4 times the study's short-circuit level.
+func scanStrength(st *study.Study, res *scanResult, fallback bool) (*scanStrengthMap, error) {
+	f0, v := st.Frequency, st.Voltage
+	lo, hi := st.Scan.ShortCircuitRange[0], st.Scan.ShortCircuitRange[1]
+	steps := st.Scan.ShortCircuitSteps
+	if hi == 0 {
+		sc := st.Source.ShortCircuitVA
+		if sc == 0 && !st.Network.Source.Ideal() {
+			z := cmplx.Abs(st.Network.Source.Impedance(complex(0, 2*math.Pi*f0)))
+			sc = v * v / z
+		}
+		if sc == 0 {
+			return nil, usagef("%s: scan.short_circuit_mva_range: --map needs a range, or a [source] to span; the study has an ideal source", st.File)
+		}
+		lo, hi = sc/4, sc*4
+	}
+	if steps < 2 {
+		steps = 25
+	}
+	if !(lo > 0 && hi > lo) {
+		return nil, usagef("%s: scan.short_circuit_mva_range: needs 0 < min < max, got [%g, %g]", st.File, lo/1e6, hi/1e6)
+	}
+	xr := st.Source.XOverR
+	if xr == 0 {
+		src := st.Network.Source
+		switch {
+		case src.R > 0:
+			xr = 2 * math.Pi * f0 * src.L / src.R
+		default:
+			xr = math.Inf(1) // ideal or purely inductive source: keep it inductive
+		}
+	}
+	if !(xr > 0) {
+		return nil, usagef("%s: source: the source-strength map needs an inductive source (X/R > 0)", st.File)
+	}
+	n := min(mapColumns, st.Scan.Points)
+	var freqs []float64
+	if st.Scan.Log {
+		freqs = freqscan.LogGrid(nil, st.Scan.FMin, st.Scan.FMax, n)
+	} else {
+		freqs = freqscan.LinearGrid(nil, st.Scan.FMin, st.Scan.FMax, n)
+	}
+	// The first resonance needs the full grid's resolution: scan each level on the
+	// study grid for the peak, then the coarse grid for the map.
+	m := freqscan.SourceStrength(st.Network, v, xr, f0, lo, hi, steps, freqs)
+	out := &scanStrengthMap{XOverR: xr, MapFreqHz: freqs, MapGain: m.Gain}
+	var full []float64
+	if st.Scan.Log {
+		full = freqscan.LogGrid(nil, st.Scan.FMin, st.Scan.FMax, st.Scan.Points)
+	} else {
+		full = freqscan.LinearGrid(nil, st.Scan.FMin, st.Scan.FMax, st.Scan.Points)
+	}
+	var pts []freqscan.Point
+	for i, sc := range m.ShortCircuitVA {
+		nn := st.Network
+		nn.Source = m.Source[i]
+		pts = freqscan.Scan(pts, nn, full)
+		first := scanStrengthFirst{ShortCircuitMVA: sc / 1e6, None: true}
+		if pk := freqscan.Peaks(nn, pts); len(pk) > 0 {
+			m.First[i] = pk[0]
+			first = scanStrengthFirst{ShortCircuitMVA: sc / 1e6, FHz: pk[0].F, Harmonic: pk[0].F / f0,
+				Gain: pk[0].Gain, Unbounded: pk[0].Unbounded}
+		} else {
+			m.First[i] = freqscan.Peak{}
+		}
+		out.ShortCircuitMVA = append(out.ShortCircuitMVA, sc/1e6)
+		out.First = append(out.First, first)
+	}
+	res.strength = &m
+	return out, nil
+}
+
+// scanTable is the --csv table: one row per frequency, units in the column names, the
+// zero-sequence columns when the study has zero-sequence data. An unbounded value (a
+// lossless network evaluated exactly at a resonance) is an empty cell.
+func scanTable(res scanResult) (*report.Table, error) {
+	cols := []string{"f_hz", "harmonic", "gain", "gain_line", "gain_sending", "z_in_re_ohm", "z_in_im_ohm",
+		"z_sending_re_ohm", "z_sending_im_ohm", "z_receiving_re_ohm", "z_receiving_im_ohm"}
+	if res.zero != nil {
+		cols = append(cols, "gain_zero", "gain_line_zero", "z_in_zero_re_ohm", "z_in_zero_im_ohm")
+	}
+	t := report.NewTable(cols...)
+	cell := func(x float64) any {
+		if math.IsInf(x, 0) || math.IsNaN(x) {
+			return ""
+		}
+		return x
+	}
+	for i, p := range res.pos {
+		row := []any{p.F, p.F / res.FrequencyHz, cell(p.Gain), cell(p.GainLine), cell(p.GainSending),
+			cell(real(p.ZIn)), cell(imag(p.ZIn)), cell(real(p.ZSending)), cell(imag(p.ZSending)),
+			cell(real(p.ZReceiving)), cell(imag(p.ZReceiving))}
+		if res.zero != nil {
+			z := res.zero[i]
+			row = append(row, cell(z.Gain), cell(z.GainLine), cell(real(z.ZIn)), cell(imag(z.ZIn)))
+		}
+		if err := t.Add(row...); err != nil {
+			return nil, err
+		}
+	}
+	return t, nil
+}
+
+// scanPlotData prepares the gain plot.
+func scanPlotData(st *study.Study, res scanResult) report.ScanPlotData {
+	f0 := st.Frequency
+	title := "Harmonic scan: gain |Vr/E|"
+	if st.Title != "" {
+		title = st.Title + ": gain |Vr/E|"
+	}
+	d := report.ScanPlotData{Title: title, Watch: res.screen.Watch, WatchBand: res.screen.WatchBand, GainLimit: res.screen.GainLimit}
+	series := func(name string, pts []freqscan.Point) report.ScanSeries {
+		s := report.ScanSeries{Name: name}
+		for _, p := range pts {
+			s.Harmonic = append(s.Harmonic, p.F/f0)
+			s.Gain = append(s.Gain, p.Gain)
+		}
+		return s
+	}
+	d.Series = append(d.Series, series("positive sequence", res.pos))
+	for _, p := range res.posPeaks {
+		d.Peaks = append(d.Peaks, report.ScanPeak{Harmonic: p.F / f0, Gain: p.Gain, Unbounded: p.Unbounded})
+	}
+	if res.zero != nil {
+		d.Series = append(d.Series, series("zero sequence", res.zero))
+		for _, p := range res.zeroPeaks {
+			d.Peaks = append(d.Peaks, report.ScanPeak{Harmonic: p.F / f0, Gain: p.Gain, Unbounded: p.Unbounded, Zero: true})
+		}
+	}
+	return d
+}
+
+// scanMapData prepares the source-strength heat map (res.SourceStrength must be set).
+func scanMapData(st *study.Study, res scanResult) report.ScanMapData {
+	f0 := st.Frequency
+	m := res.strength
+	title := "Gain |Vr/E| (positive sequence) over frequency and source strength"
+	if res.SourceStrength != nil && !math.IsInf(res.SourceStrength.XOverR, 0) {
+		title += fmt.Sprintf(" (X/R %.3g)", res.SourceStrength.XOverR)
+	}
+	d := report.ScanMapData{Title: title, Watch: res.screen.Watch, StudyMVA: st.Source.ShortCircuitVA / 1e6}
+	for _, f := range m.Freqs {
+		d.Harmonic = append(d.Harmonic, f/f0)
+	}
+	for i, sc := range m.ShortCircuitVA {
+		d.ShortCircuit = append(d.ShortCircuit, sc/1e6)
+		d.FirstHarmonic = append(d.FirstHarmonic, m.First[i].F/f0)
+	}
+	d.Gain = m.Gain
+	return d
+}
+
+// printScan writes the terminal summary.
+func printScan(w io.Writer, st *study.Study, res scanResult) {
+	f0 := st.Frequency
+	title := st.Title
+	if title == "" {
+		title = st.File
+	}
+	fmt.Fprintf(w, "Harmonic scan: %s\n", title)
+	fmt.Fprintf(w, "Model: %s.\n", res.Model)
+	fmt.Fprintf(w, "Grid: %d points, %s, %g to %g Hz (harmonic %.3g to %.3g of %g Hz).\n\n",
+		len(res.pos), res.Grid, res.FMinHz, res.FMaxHz, res.FMinHz/f0, res.FMaxHz/f0, f0)
+	printPeaks := func(name string, s scanSequence) {
+		fmt.Fprintf(w, "Resonance peaks of the gain |Vr/E|, %s:\n", name)
+		if len(s.Peaks) == 0 {
+			fmt.Fprintln(w, "  none inside the band")
+		} else {
+			fmt.Fprintf(w, "  %10s  %8s  %10s  %6s  %s\n", "f (Hz)", "harmonic", "gain", "Q", "-3 dB band (Hz)")
+			for _, p := range s.Peaks {
+				q, band := "-", "-"
+				if p.Q > 0 {
+					q, band = fmt.Sprintf("%.3g", p.Q), fmt.Sprintf("%.5g to %.5g", p.FLowHz, p.FHighHz)
+				}
+				if p.Unbounded {
+					q, band = "-", "lossless network: a pole"
+				}
+				fmt.Fprintf(w, "  %10.5g  %8.3f  %10s  %6s  %s\n", p.FHz, p.Harmonic, fmtGain(p.Gain), q, band)
+			}
+		}
+		// The terminal lists the driving-point resonances up to just above the highest
+		// watched harmonic; --json has them all.
+		top := 1.1 * float64(maxInt(res.WatchHarmonics)) * f0
+		var shown []scanZRes
+		for _, r := range s.ImpedanceResonances {
+			if r.FHz <= top {
+				shown = append(shown, r)
+			}
+		}
+		if len(shown) > 0 {
+			fmt.Fprintf(w, "Driving-point resonances, %s, up to %.4g Hz (|Z| maxima: parallel, minima: series;\n", name, top)
+			fmt.Fprintf(w, "%d of %d listed, all in --json):\n", len(shown), len(s.ImpedanceResonances))
+			fmt.Fprintf(w, "  %10s  %8s  %-9s  %-8s  %s\n", "f (Hz)", "harmonic", "bus", "kind", "|Z| (ohm)")
+			for _, r := range shown {
+				z := fmt.Sprintf("%.4g", r.ZOhm)
+				if r.Unbounded {
+					z = "unbounded"
+				}
+				bus := r.Bus
+				if bus == "in" {
+					bus = "into line"
+				}
+				fmt.Fprintf(w, "  %10.5g  %8.3f  %-9s  %-8s  %s\n", r.FHz, r.Harmonic, bus, r.Kind, z)
+			}
+		}
+		fmt.Fprintln(w)
+	}
+	printPeaks("positive sequence", res.scanSequence)
+	if res.ZeroSequence != nil {
+		printPeaks("zero sequence", *res.ZeroSequence)
+	}
+	fmt.Fprintf(w, "Harmonic screening: gain at each watched order and the largest gain within ±%.0f %% (limit %g);\n",
+		res.WatchBandPct, res.GainLimit)
+	fmt.Fprintf(w, "planning levels: %s.\n", res.PlanningSource)
+	fmt.Fprintf(w, "  %3s  %8s  %-22s  %9s  %9s  %8s  %10s  %9s  %s\n", "h", "f (Hz)", "sequence", "gain", "band gain",
+		"plan %", "backgr. %", "recv. %", "verdict")
+	for _, h := range res.Harmonics {
+		if !h.Watched && h.BackgroundPct == nil && !h.ExceedsPlanning {
+			continue
+		}
+		band := "-"
+		if h.Watched {
+			band = fmtGain(h.BandGain)
+		}
+		bg, rv := "-", "-"
+		verdict := "ok"
+		if h.BackgroundPct != nil {
+			bg, rv = fmt.Sprintf("%.3g", *h.BackgroundPct), fmtGain(*h.ReceivingPct)
+			if h.ExceedsPlanning {
+				verdict = "exceeds planning"
+			}
+		} else if h.AllowedBackgroundPct > 0 {
+			verdict = fmt.Sprintf("ok if background <= %.3g %%", h.AllowedBackgroundPct)
+		}
+		if h.OverLimit {
+			verdict = "GAIN OVER LIMIT; " + verdict
+		}
+		fmt.Fprintf(w, "  %3d  %8.4g  %-22s  %9s  %9s  %8.3g  %10s  %9s  %s\n", h.Order, h.FHz, h.Sequence,
+			fmtGain(h.Gain), band, h.PlanningPct, bg, rv, verdict)
+	}
+	fmt.Fprintln(w, "  (background: the harmonic voltage at the sending bus before the line is connected, taken as the")
+	fmt.Fprintln(w, "   source EMF; receiving-end level = background x gain; all orders are in --json and --csv)")
+	fmt.Fprintln(w)
+	if len(res.Flags) == 0 {
+		fmt.Fprintln(w, "Flags: none.")
+	} else {
+		fmt.Fprintln(w, "Flags:")
+		for _, f := range res.Flags {
+			fmt.Fprintf(w, "  - %s\n", f)
+		}
+	}
+	if m := res.SourceStrength; m != nil {
+		xr := "purely inductive source"
+		if !math.IsInf(m.XOverR, 0) {
+			xr = fmt.Sprintf("X/R %.3g kept", m.XOverR)
+		}
+		fmt.Fprintf(w, "\nFirst resonance against source short-circuit level, positive sequence (%s):\n", xr)
+		fmt.Fprintf(w, "  %10s  %10s  %8s  %10s\n", "Ssc (MVA)", "f (Hz)", "harmonic", "gain")
+		for _, f := range m.First {
+			if f.None {
+				fmt.Fprintf(w, "  %10.5g  %10s  %8s  %10s\n", f.ShortCircuitMVA, "-", "-", "none in band")
+				continue
+			}
+			g := fmtGain(f.Gain)
+			if f.Unbounded {
+				g = "unbounded"
+			}
+			fmt.Fprintf(w, "  %10.5g  %10.5g  %8.3f  %10s\n", f.ShortCircuitMVA, f.FHz, f.Harmonic, g)
+		}
+	}
+	fmt.Fprintf(w, "\n%s\n", Caution)
+}
+
+func maxInt(v []int) int {
+	m := 0
+	for _, x := range v {
+		m = max(m, x)
+	}
+	return m
+}
