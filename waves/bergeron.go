@@ -28,7 +28,11 @@ type BergeronOptions struct {
 // The line is split at mid-line; with LumpedResistance each piece carries half its
 // resistance at each end. The time step is the shortest half-line travel time divided
 // by an integer (no interpolation) when every piece allows it, otherwise the histories
-// are interpolated linearly, which smooths a wavefront over about one step.
+// are interpolated linearly, which smooths a wavefront over about one step at each
+// transit (the note states the step and the largest interpolated fraction). A
+// sectioned line is a chain of pieces, each section with its own surge impedance and
+// travel time; each junction of sections is a node, whose voltage is kept in
+// Waveform.Junctions.
 //
 // Initial state: the line at the trapped voltage with no current, line-connected
 // reactors with no current (the crest of the ring-down), line-connected capacitors at
@@ -57,6 +61,7 @@ func Bergeron(n freqscan.Network, e Energisation, opt BergeronOptions) (*Wavefor
 	half := n.Line.Length() / 2
 	pos := 0.0
 	midPiece := -1 // index of the first piece after mid-line
+	var junctionNode []int // the node of each junction of sections
 	for i, l := range n.Line {
 		zc, v := l.Lossless(e.Omega)
 		if !(zc > 0) || !(v > 0) || !(l.Length > 0) {
@@ -81,6 +86,9 @@ func Bergeron(n freqscan.Network, e Energisation, opt BergeronOptions) (*Wavefor
 			add(l.Length)
 		}
 		pos = end
+		if i+1 < len(n.Line) {
+			junctionNode = append(junctionNode, len(pieces))
+		}
 	}
 	tauMin := math.Inf(1)
 	for _, p := range pieces {
@@ -94,10 +102,13 @@ func Bergeron(n freqscan.Network, e Energisation, opt BergeronOptions) (*Wavefor
 		return nil, fmt.Errorf("%w: bergeron: time step %.4g µs exceeds the shortest travel time %.4g µs", ErrSettings, dt*1e6, tauMin*1e6)
 	}
 	exact := true
+	worstFrac := 0.0 // the largest fraction of a step interpolated in a history
 	for _, p := range pieces {
 		k := p.tau / dt
+		f := k - math.Floor(k)
 		if math.Abs(k-math.Round(k)) > 1e-6 {
 			exact = false
+			worstFrac = math.Max(worstFrac, math.Min(f, 1-f))
 		}
 	}
 
@@ -325,6 +336,12 @@ func Bergeron(n freqscan.Network, e Energisation, opt BergeronOptions) (*Wavefor
 	}
 	ihA := make([]float64, len(pieces))
 	ihB := make([]float64, len(pieces))
+	names, xs := junctionNames(n)
+	for i, name := range names {
+		j := JunctionWave{Name: name, X: xs[i], V: make([]float64, steps)}
+		j.V[0] = v0
+		wf.Junctions = append(wf.Junctions, j)
+	}
 	wf.Sending[0], wf.Receiving[0], wf.Middle[0] = vs0, v0, v0
 	for k := range pieces { // the line at rest at the trapped voltage at t = 0+ ...
 		ha[k].v[0], hb[k].v[0] = v0, v0
@@ -375,12 +392,18 @@ func Bergeron(n freqscan.Network, e Energisation, opt BergeronOptions) (*Wavefor
 		wf.Sending[nstep] = v[send]
 		wf.Receiving[nstep] = v[recv]
 		wf.Middle[nstep] = v[mid]
+		for i, node := range junctionNode {
+			wf.Junctions[i].V[nstep] = v[node]
+		}
 	}
 	note := fmt.Sprintf("Bergeron, lossless line pieces (half-line travel time %.4g µs), trapezoidal lumped elements, time step %.4g µs", pieces[0].tau*1e6, dt*1e6)
+	if len(n.Line) > 1 {
+		note = fmt.Sprintf("Bergeron, %d lossless line pieces (%d sections, each its own surge impedance and travel time; shortest piece %.4g µs), trapezoidal lumped elements, time step %.4g µs", len(pieces), len(n.Line), tauMin*1e6, dt*1e6)
+	}
 	if exact {
 		note += " (travel times are whole multiples of the step: no interpolation)"
 	} else {
-		note += " (histories interpolated linearly: wavefronts smoothed over about one step)"
+		note += fmt.Sprintf(" (histories interpolated linearly, up to %.2f of a step: each wavefront is smoothed over one step, %.4g µs, at each transit; the timing of every front is exact)", worstFrac, dt*1e6)
 	}
 	wf.Notes = append(wf.Notes, note)
 	if opt.LumpedResistance {
@@ -389,7 +412,7 @@ func Bergeron(n freqscan.Network, e Energisation, opt BergeronOptions) (*Wavefor
 		wf.Notes = append(wf.Notes, "line resistance neglected (lossless line)")
 	}
 	wf.Notes = append(wf.Notes, "trapezoidal rule: error O(Δt²) for smooth parts; may ring at a current discontinuity in an inductor")
-	if !finite(wf.Sending, wf.Receiving, wf.Middle) {
+	if !finite(wf.Sending, wf.Receiving, wf.Middle) || !junctionsFinite(wf.Junctions) {
 		return nil, fmt.Errorf("waves: bergeron: non-finite result (time step too coarse for the network?)")
 	}
 	return wf, nil

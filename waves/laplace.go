@@ -75,7 +75,9 @@ func NewLaplaceTransform(n int) *LaplaceTransform {
 // initial-condition sources: the source EMF less V0/s, and −Y·V0/s through each
 // line-connected reactor (no current at closing). Line-connected capacitors hold V0.
 // For a sine EMF the source side is in its steady state before closing: it acts on
-// the line through its Norton equivalent with the open-circuit bus voltage.
+// the line through its Norton equivalent with the open-circuit bus voltage. A
+// sectioned line is the cascade of its sections' exact two-ports; the voltage at each
+// junction comes from the partial cascades (see LaplaceTransform.Junctions).
 //
 // References:
 //
@@ -91,17 +93,20 @@ func Laplace(n freqscan.Network, e Energisation, opt LaplaceOptions) (*Waveform,
 	if len(n.Line) == 0 {
 		return nil, fmt.Errorf("waves: laplace: the line has no sections")
 	}
-	tau := 0.0
+	tau, tauMin := 0.0, math.Inf(1)
 	for i, l := range n.Line {
 		t := l.TravelTime(e.Omega)
 		if !(t > 0) || !(l.Length > 0) {
 			return nil, fmt.Errorf("waves: laplace: section %d needs length, inductance and capacitance > 0", i+1)
 		}
 		tau += t
+		tauMin = math.Min(tauMin, t)
 	}
 	dt := e.TimeStep
 	if dt == 0 {
-		dt = defaultStep(tau, e.Duration)
+		// a hundredth of the whole travel time, and at least 20 steps over the
+		// shortest section (a short cable's own reflections)
+		dt = defaultStep(math.Min(tau, 5*tauMin), e.Duration)
 	}
 	N := opt.Samples
 	if N == 0 {
@@ -124,6 +129,16 @@ func Laplace(n freqscan.Network, e Energisation, opt LaplaceOptions) (*Waveform,
 	}
 	m := samples(e.Duration, dt)
 	wf := &Waveform{Method: "laplace", Step: dt, Sending: resample(vs, inner, dt, m), Receiving: resample(vr, inner, dt, m)}
+	if len(n.Line) > 1 {
+		vj, err := lt.Junctions(n, e, inner)
+		if err != nil {
+			return nil, err
+		}
+		names, xs := junctionNames(n)
+		for i, v := range vj {
+			wf.Junctions = append(wf.Junctions, JunctionWave{Name: names[i], X: xs[i], V: resample(v, inner, dt, m)})
+		}
+	}
 	T := float64(N) * inner
 	wf.Notes = append(wf.Notes, fmt.Sprintf("numerical Laplace transform: %d frequency samples up to %.4g kHz, window T = %.4g ms (first half kept), damping c = ln(N²)/T = %.4g 1/s, Hanning window; aliasing below 1/N² = %.1e",
 		N, float64(N)/T/1e3, T*1e3, math.Log(float64(N)*float64(N))/T, 1/(float64(N)*float64(N))))
@@ -211,6 +226,112 @@ func (lt *LaplaceTransform) Energise(n freqscan.Network, e Energisation, dt floa
 		return nil, nil, fmt.Errorf("waves: laplace: non-finite result (network evaluation overflowed)")
 	}
 	return vsOut, vrOut, nil
+}
+
+// Junctions inverts the voltage at each junction of sections of the energisation (see
+// Laplace) with time step dt (s), the first N/2 samples from t = 0, in pu, sending end
+// first. At each s the junction voltage follows from the receiving end through the
+// partial cascade of the sections beyond the junction,
+//
+//	V_j = A_j·V_r + B_j·I_r,   [A_j B_j; C_j D_j] = Π_{i >= j} ABCD_i(s)
+//
+// with I_r the current the line delivers into its line-connected receiving shunts
+// (zero for the bare open end): both terms grow towards the sending end, so nothing
+// cancels. The slices are freshly allocated.
+func (lt *LaplaceTransform) Junctions(n freqscan.Network, e Energisation, dt float64) ([][]float64, error) {
+	nj := len(n.Line) - 1
+	if nj <= 0 {
+		return nil, nil
+	}
+	N := lt.n
+	T := float64(N) * dt
+	c := math.Log(float64(N)*float64(N)) / T
+	dw := 2 * math.Pi / T
+	net := n.Energising()
+	ev := newEvaluator(net, e)
+	spec := make([][]complex128, nj)
+	for j := range spec {
+		spec[j] = make([]complex128, N)
+	}
+	workers := min(runtime.GOMAXPROCS(0), 2)
+	if N < 4096 {
+		workers = 1
+	}
+	parallel(workers, N, func(lo, hi int) {
+		vj := make([]complex128, nj)
+		for k := lo; k < hi; k++ {
+			ev.junctions(complex(c, float64(k)*dw), vj)
+			wk := complex(lt.window[k], 0)
+			if k == 0 {
+				wk *= 0.5
+			}
+			for j := range vj {
+				spec[j][k] = wk * vj[j]
+			}
+		}
+	})
+	half := N / 2
+	out := make([][]float64, nj)
+	grow := math.Exp(c * dt)
+	for j := range out {
+		A, B := spec[j], lt.coeff[0]
+		B[0] = complex(real(A[0]), 0)
+		for i := 1; i <= half; i++ {
+			B[i] = (A[i] + cmplx.Conj(A[N-i])) * 0.5
+		}
+		B[half] = complex(real(B[half]), 0)
+		lt.plans[0].Sequence(lt.seq[0], B)
+		v := make([]float64, half)
+		var g float64
+		for m := range v {
+			if m%256 == 0 {
+				g = 2 / T * math.Exp(c*float64(m)*dt)
+			} else {
+				g *= grow
+			}
+			v[m] = e.TrappedPU + g*lt.seq[0][m]
+		}
+		if !finite(v) {
+			return nil, fmt.Errorf("waves: laplace: non-finite junction voltage (network evaluation overflowed)")
+		}
+		out[j] = v
+	}
+	return out, nil
+}
+
+// junctions sets dst[j] to the voltage (without V0/s) at junction j+1 of the sections
+// at s.
+func (ev *evaluator) junctions(s complex128, dst []complex128) {
+	_, vr := ev.at(s)
+	yr, jr := ev.receivingShunts(s)
+	ir := yr*vr - jr // into the receiving line-connected shunts
+	p := propagation.Identity()
+	line := ev.net.Line
+	for j := len(line) - 1; j >= 1; j-- {
+		p = line[j].Exact(s).Then(p)
+		v := p.A*vr + p.B*ir
+		if p.LogScale != 0 {
+			v *= complex(math.Exp(p.LogScale), 0)
+		}
+		dst[j-1] = v
+	}
+}
+
+// receivingShunts returns the admittance of the line-connected receiving shunts at s
+// and their equivalent initial-condition current (−Y·V0/s for reactors).
+func (ev *evaluator) receivingShunts(s complex128) (yr, jr complex128) {
+	vp := complex(ev.v0, 0) / s
+	for _, sh := range ev.net.Shunts {
+		if sh.End != freqscan.Receiving || !sh.OnLine {
+			continue
+		}
+		y := sh.Admittance(s)
+		yr += y
+		if sh.L > 0 {
+			jr -= y * vp
+		}
+	}
+	return yr, jr
 }
 
 // parallel runs fn over [0, n) split into at most workers contiguous parts.

@@ -95,7 +95,9 @@ const latticeFloor = 1e-9
 //
 // The voltage at a point is V0 plus the sum of the delayed launched waveform over all
 // wavefronts that have reached it, each times its coefficient; for the lossless line
-// this is exact (no time-step error: samples are taken of the closed-form sum).
+// this is exact (no time-step error: samples are taken of the closed-form sum). The
+// voltage at a junction (in Waveform.Junctions) is the sum of the waves arriving at it
+// and leaving it on the sending side, which equals the transmitted waves.
 //
 // It refuses (error wrapping ErrMethod) a source with inductance and any shunt at the
 // sending bus or on the line: those are not resistive junctions. The surge impedance
@@ -235,13 +237,18 @@ func Lattice(n freqscan.Network, e Energisation, opt LatticeOptions) (*Waveform,
 	wf.Sending = latticeAt(d, atten, 0, e, launch, dt, m)
 	wf.Receiving = latticeAt(d, atten, d.Length, e, launch, dt, m)
 	wf.Middle = latticeAt(d, atten, d.Length/2, e, launch, dt, m)
+	names, _ := junctionNames(n)
+	for i, name := range names {
+		x := d.Junctions[i+1]
+		wf.Junctions = append(wf.Junctions, JunctionWave{Name: name, X: x, V: latticeAt(d, atten, x, e, launch, dt, m)})
+	}
 	if opt.AttenuationHz > 0 {
 		wf.Notes = append(wf.Notes, fmt.Sprintf("lattice diagram with each transit attenuated by the line's alpha at %.4g Hz (distortionless approximation of the losses)", opt.AttenuationHz))
 	} else {
 		wf.Notes = append(wf.Notes, "lattice diagram of the lossless line: exact for a resistive source, no shunts")
 	}
 	wf.Notes = append(wf.Notes, fmt.Sprintf("%d wavefronts traced, %d below %.0e of the launched wave dropped", len(d.Wavefronts), d.Dropped, latticeFloor))
-	if !finite(wf.Sending, wf.Receiving, wf.Middle) {
+	if !finite(wf.Sending, wf.Receiving, wf.Middle) || !junctionsFinite(wf.Junctions) {
 		return nil, nil, fmt.Errorf("waves: lattice: non-finite result")
 	}
 	return wf, d, nil

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+
+	"github.com/telegrapher/telegrapher/freqscan"
 )
 
 // Excitation names the source EMF applied at the closing instant t = 0.
@@ -90,8 +92,45 @@ type Waveform struct {
 	Sending   []float64 // sending-end (line side of the breaker) voltage, pu
 	Receiving []float64 // open receiving-end voltage, pu
 	Middle    []float64 // mid-line voltage, pu; may be nil
+	// Junctions holds the voltage at each junction of sections of a sectioned line,
+	// from the sending end (len(line) − 1 of them); nil for a single section.
+	Junctions []JunctionWave
 	// Notes states the method's assumptions and its error estimate, for the reader.
 	Notes []string
+}
+
+// JunctionWave is the voltage at the junction of two sections in cascade.
+type JunctionWave struct {
+	Name string    // "A / B" from the names of the sections on either side (or their numbers)
+	X    float64   // m from the sending end
+	V    []float64 // pu, sampled like the waveform's ends
+}
+
+// junctionNames returns the label and position (m) of each junction of the line.
+func junctionNames(n freqscan.Network) (names []string, xs []float64) {
+	label := func(i int) string {
+		if n.Line[i].Name != "" {
+			return n.Line[i].Name
+		}
+		return fmt.Sprintf("section %d", i+1)
+	}
+	x := 0.0
+	for i := 0; i+1 < len(n.Line); i++ {
+		x += n.Line[i].Length
+		names = append(names, label(i)+" / "+label(i+1))
+		xs = append(xs, x)
+	}
+	return names, xs
+}
+
+// junctionsFinite reports whether every junction sample is finite.
+func junctionsFinite(js []JunctionWave) bool {
+	for _, j := range js {
+		if !finite(j.V) {
+			return false
+		}
+	}
+	return true
 }
 
 // Time returns the time of sample k in seconds.

@@ -58,6 +58,10 @@ Methods (--method over [energise] method, default laplace):
   laplace   numerical Laplace transform of the whole frequency-domain network (exact
             line model, frequency-dependent constants included)
 
+On a line in sections ([[line.sections]]) every method also gives the voltage at each
+junction of sections (JSON "junctions", one CSV column per junction, a plot trace
+each), where the peak may occur.
+
 The summary gives the peak at each end and when, the method's limits, and the dominant
 frequencies of the transient (Hann window and FFT of the receiving-end voltage) beside
 the resonances of the same network found by a frequency scan. Results are unprotected
@@ -203,7 +207,23 @@ type energiseResult struct {
 	VSendingPU   []float64 `json:"v_sending_pu"`
 	VMiddlePU    []float64 `json:"v_middle_pu,omitempty"`
 
+	// A sectioned line: the voltage at each junction of sections, and the largest
+	// voltage at any of the ends and junctions.
+	Junctions    []energiseJunction `json:"junctions,omitempty"`
+	PeakAnyPU    float64            `json:"peak_any_pu"`
+	PeakAnyWhere string             `json:"peak_any_where"`
+	PeakAnyXKm   float64            `json:"peak_any_x_km"`
+
 	diagram *waves.LatticeDiagram
+}
+
+// energiseJunction is the energisation at one junction of sections.
+type energiseJunction struct {
+	Name    string    `json:"name"`
+	XKm     float64   `json:"x_km"` // from the sending end
+	PeakPU  float64   `json:"peak_pu"`
+	TPeakMs float64   `json:"t_peak_ms"`
+	VPU     []float64 `json:"v_pu"`
 }
 
 // energiseSpectrum is the spectrum of the receiving-end transient.
@@ -379,6 +399,17 @@ func computeEnergise(st *study.Study, method string) (energiseResult, error) {
 	res.PeakPU, res.TPeakMs, res.PeakKV = pk, res.TMs[k], pk*base
 	pk, k = waves.Peak(w.Sending)
 	res.PeakSendingPU, res.TPeakSendingMs = pk, res.TMs[k]
+	res.PeakAnyPU, res.PeakAnyWhere, res.PeakAnyXKm = res.PeakPU, "receiving end", st.Line.Length()/1e3
+	if math.Abs(res.PeakSendingPU) > math.Abs(res.PeakAnyPU) {
+		res.PeakAnyPU, res.PeakAnyWhere, res.PeakAnyXKm = res.PeakSendingPU, "sending end", 0
+	}
+	for _, j := range w.Junctions {
+		pk, k := waves.Peak(j.V)
+		res.Junctions = append(res.Junctions, energiseJunction{Name: j.Name, XKm: j.X / 1e3, PeakPU: pk, TPeakMs: res.TMs[k], VPU: j.V})
+		if math.Abs(pk) > math.Abs(res.PeakAnyPU) {
+			res.PeakAnyPU, res.PeakAnyWhere, res.PeakAnyXKm = pk, "junction "+j.Name, j.X/1e3
+		}
+	}
 	res.Resonances = scanResonances(st, w.Step)
 	res.Spectrum = transientSpectrum(w.Receiving, w.Step, st.Frequency, res.Resonances)
 	return res, nil
@@ -548,18 +579,25 @@ func compareEnergise(st *study.Study) (*energiseComparison, error) {
 	return cmp, nil
 }
 
-// energiseTable returns the waveforms as a table: t_ms, v_sending_pu, v_receiving_pu
-// and v_middle_pu where the method gives it.
+// energiseTable returns the waveforms as a table: t_ms, v_sending_pu, v_receiving_pu,
+// v_middle_pu where the method gives it, and on a sectioned line one column per
+// junction, v_junction1_pu, v_junction2_pu, ... from the sending end.
 func energiseTable(res energiseResult) (*report.Table, error) {
 	cols := []string{"t_ms", "v_sending_pu", "v_receiving_pu"}
 	if res.VMiddlePU != nil {
 		cols = append(cols, "v_middle_pu")
+	}
+	for i := range res.Junctions {
+		cols = append(cols, fmt.Sprintf("v_junction%d_pu", i+1))
 	}
 	t := report.NewTable(cols...)
 	for k, tm := range res.TMs {
 		row := []any{tm, res.VSendingPU[k], res.VReceivingPU[k]}
 		if res.VMiddlePU != nil {
 			row = append(row, res.VMiddlePU[k])
+		}
+		for _, j := range res.Junctions {
+			row = append(row, j.VPU[k])
 		}
 		if err := t.Add(row...); err != nil {
 			return nil, err
@@ -583,6 +621,9 @@ func energisePlotData(st *study.Study, res energiseResult) report.EnergisePlotDa
 		report.EnergiseTrace{Name: "sending end", TMs: res.TMs, V: res.VSendingPU})
 	if res.VMiddlePU != nil {
 		d.Traces = append(d.Traces, report.EnergiseTrace{Name: "mid-line", TMs: res.TMs, V: res.VMiddlePU, Dashed: true})
+	}
+	for _, j := range res.Junctions {
+		d.Traces = append(d.Traces, report.EnergiseTrace{Name: fmt.Sprintf("junction %s (%.4g km)", j.Name, j.XKm), TMs: res.TMs, V: j.VPU})
 	}
 	if c := res.Compare; c != nil {
 		for _, m := range c.Methods {
@@ -629,6 +670,13 @@ func printEnergise(w io.Writer, st *study.Study, res energiseResult) {
 	}
 	fmt.Fprintf(w, "\npeak at the receiving (open) end  %+.4f pu = %+.1f kV at %.3f ms\n", res.PeakPU, res.PeakKV, res.TPeakMs)
 	fmt.Fprintf(w, "peak at the sending end           %+.4f pu = %+.1f kV at %.3f ms\n", res.PeakSendingPU, res.PeakSendingPU*res.BaseKV, res.TPeakSendingMs)
+	if len(res.Junctions) > 0 {
+		fmt.Fprintln(w, "peaks at the junctions of sections:")
+		for _, j := range res.Junctions {
+			fmt.Fprintf(w, "  %-30s at %8.3f km  %+.4f pu = %+.1f kV at %.3f ms\n", j.Name, j.XKm, j.PeakPU, j.PeakPU*res.BaseKV, j.TPeakMs)
+		}
+		fmt.Fprintf(w, "largest of ends and junctions     %+.4f pu at the %s (%.4g km)\n", res.PeakAnyPU, res.PeakAnyWhere, res.PeakAnyXKm)
+	}
 	fmt.Fprintf(w, "\ndominant frequencies of the receiving-end transient (%s, resolution %.3g Hz, above %.3g Hz):\n", res.Spectrum.Window, res.Spectrum.ResolutionHz, 2*res.Spectrum.ResolutionHz)
 	if len(res.Spectrum.Dominant) == 0 {
 		fmt.Fprintln(w, "  none found")
