@@ -1,6 +1,3 @@
-// Package study loads and validates a telegrapher study file (TOML), converts it to SI
-// units once, fills the documented defaults, and builds the line and network models
-// every command shares.
 package study
 
 import (

@@ -1,0 +1,53 @@
+package study
+
+import (
+	"errors"
+	"fmt"
+)
+
+// Error is a problem with a study file: the file, the key path (or the line of a TOML
+// syntax error) and what is wrong. Its text is `FILE: key.path: problem`, for example
+//
+//	study.toml: line.length_km: must be > 0, got -3
+//	study.toml: line 12: syntax error: expected value but found "="
+//
+// Every error the loader returns is an *Error.
+type Error struct {
+	File string // the study file as given
+	Key  string // key path such as "line.sections[1].length_km"; "" for whole-file problems
+	Line int    // line of a TOML syntax error; 0 otherwise
+	Msg  string // the problem, with the offending value where there is one
+
+	text string // the full text of an error raised by a registered table parser
+}
+
+func (e *Error) Error() string {
+	if e.text != "" {
+		return e.text
+	}
+	switch {
+	case e.Key != "":
+		return fmt.Sprintf("%s: %s: %s", e.File, e.Key, e.Msg)
+	case e.Line > 0:
+		return fmt.Sprintf("%s: line %d: %s", e.File, e.Line, e.Msg)
+	}
+	return fmt.Sprintf("%s: %s", e.File, e.Msg)
+}
+
+// IsInputError reports whether err is (or wraps) a problem with a study file, which the
+// CLI reports with exit status 2.
+func IsInputError(err error) bool {
+	var e *Error
+	return errors.As(err, &e)
+}
+
+// wrapHookError turns an error returned by a registered parser into an *Error keeping
+// its text. Parsers deal only with user data, so whatever they return is an input
+// error; key is the table the parser owns.
+func wrapHookError(file, key string, err error) *Error {
+	var e *Error
+	if errors.As(err, &e) {
+		return e
+	}
+	return &Error{File: file, Key: key, Msg: err.Error(), text: err.Error()}
+}

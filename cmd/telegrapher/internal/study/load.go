@@ -1,0 +1,499 @@
+package study
+
+// The study loader: Load/Parse read a TOML study file, check every key, convert to SI
+// units once, fill the documented defaults and build the line and network models.
+//
+// # Adding a study table (the extension point)
+//
+// Other files of this package add tables without touching this file, by registering a
+// parser in an init function:
+//
+//	func init() {
+//		RegisterTable(TableHook{
+//			Name:  "switching",   // top-level key the parser owns: [switching]
+//			Stage: AfterModels,   // or BeforeLine when the line needs its result
+//			Parse: func(ld *Loader, t *Table) error {
+//				n, ok := t.Int("shots")   // typed, checked, key path in messages
+//				...
+//				t.Known("shots", "seed", ...) // unknown keys, with a did-you-mean hint
+//				ld.Study.Switching.Shots = int(n)
+//				ld.Note("switching.shots", "200", "default") // for `check`
+//				return ld.Err()
+//			},
+//		})
+//	}
+//
+// Parse is called once per load whether the table is in the file or not (an absent
+// table reads as empty, so defaults apply); t.Present() tells the two apart. Until a
+// parser is registered its key is an unknown key. BeforeLine parsers run after
+// frequency_hz, voltage_kv and us_kv are read and before [line]; AfterModels parsers
+// run last, with Study.Line, Zero, Network and ZeroNetwork built. ld.Set/ld.Get pass
+// values between parsers (the conductors to the geometry).
+//
+// A sub-table of [line] and of every [[line.sections]] entry that gives a section's
+// constants some other way (the tower geometry) registers a SectionHook:
+//
+//	RegisterSection(SectionHook{
+//		Key: "geometry", // [line.geometry], [line.sections.geometry]
+//		Build: func(ld *Loader, section, sub *Table) (pos, zero propagation.Constants, err error) { ... },
+//	})
+//
+// When the section has the key, Build replaces the per-length keys (giving both is an
+// error reported here); pos must be non-nil, zero may be nil.
+//
+// Errors: a parser returns an error (any type; it is kept as an input error with its
+// text) or records one with t.Errorf / ld.Errorf, whose text is `FILE: key.path:
+// problem, got X`. Never panic on user data.
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"sort"
+
+	"github.com/BurntSushi/toml"
+	"github.com/telegrapher/telegrapher/propagation"
+)
+
+// Limits of a study file.
+const (
+	MaxFileBytes  = 1 << 20    // the file size cap, 1 MiB
+	MaxScanPoints = 1_000_000  // [scan] points
+	MaxSamples    = 10_000_000 // [energise] duration_ms / time_step_us
+	MaxShunts     = 100        // [[shunt]] entries
+	MaxSections   = 1000       // [[line.sections]] entries
+)
+
+// Stage says when a registered table parser runs.
+type Stage int
+
+const (
+	// BeforeLine parsers run after the system keys and before [line].
+	BeforeLine Stage = iota
+	// AfterModels parsers run last, with the line and network models built.
+	AfterModels
+)
+
+// TableHook is a parser of one top-level table, registered by another file of this
+// package (see the top of load.go).
+type TableHook struct {
+	Name  string // top-level key, e.g. "switching"
+	Stage Stage
+	Parse func(ld *Loader, t *Table) error
+}
+
+// SectionHook gives a line section's constants from a sub-table of the section (see
+// the top of load.go).
+type SectionHook struct {
+	Key   string // sub-table key in [line] and in each [[line.sections]] entry
+	Build func(ld *Loader, section, sub *Table) (pos, zero propagation.Constants, err error)
+}
+
+var (
+	tableHooks   []TableHook
+	sectionHooks []SectionHook
+)
+
+// RegisterTable adds a top-level table parser. Call it from init; a duplicate or core
+// name is a programmer error and panics.
+func RegisterTable(h TableHook) {
+	if h.Name == "" || h.Parse == nil || contains(rootKeys, h.Name) {
+		panic("study: RegisterTable: bad or core table name " + h.Name)
+	}
+	for _, o := range tableHooks {
+		if o.Name == h.Name {
+			panic("study: RegisterTable: " + h.Name + " registered twice")
+		}
+	}
+	tableHooks = append(tableHooks, h)
+	sort.SliceStable(tableHooks, func(i, j int) bool { return tableHooks[i].Name < tableHooks[j].Name })
+}
+
+// RegisterSection adds a section-constants parser. Call it from init.
+func RegisterSection(h SectionHook) {
+	if h.Key == "" || h.Build == nil || contains(sectionKeys, h.Key) || contains(lineOnlyKeys, h.Key) {
+		panic("study: RegisterSection: bad or core key " + h.Key)
+	}
+	for _, o := range sectionHooks {
+		if o.Key == h.Key {
+			panic("study: RegisterSection: " + h.Key + " registered twice")
+		}
+	}
+	sectionHooks = append(sectionHooks, h)
+}
+
+// Keys of the core study file.
+var (
+	rootKeys      = []string{"title", "frequency_hz", "voltage_kv", "us_kv", "line", "source", "shunt", "receiving", "scan", "energise"}
+	constantKeys  = []string{"r_ohm_per_km", "l_mh_per_km", "x_ohm_per_km", "c_nf_per_km", "b_us_per_km", "g_us_per_km"}
+	zeroKeys      = []string{"r0_ohm_per_km", "l0_mh_per_km", "x0_ohm_per_km", "c0_nf_per_km", "b0_us_per_km", "g0_us_per_km"}
+	sectionKeys   = append(append([]string{"name", "length_km"}, constantKeys...), zeroKeys...)
+	lineOnlyKeys  = []string{"sections"}
+	sourceKeys    = []string{"short_circuit_mva", "x_over_r", "r_ohm", "l_mh", "x_ohm", "x0_over_x1"}
+	shuntKeys     = []string{"name", "at", "connection", "mvar", "q_factor"}
+	receivingKeys = []string{"load_mw", "load_mvar", "short_circuit_mva", "x_over_r"}
+	scanKeys      = []string{"f_min_hz", "f_max_hz", "points", "grid", "watch_harmonics", "gain_limit", "watch_band_pct", "background_pct", "planning_pct", "short_circuit_mva_range", "steps"}
+	energiseKeys  = []string{"waveform", "close_deg", "trapped_pu", "duration_ms", "time_step_us", "method"}
+)
+
+// Load reads and validates the study file at path. Every error is an *Error naming
+// the file, and the key path or line.
+func Load(path string) (*Study, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, &Error{File: path, Msg: "cannot read the study file: " + plainOSError(err)}
+	}
+	defer f.Close()
+	if fi, err := f.Stat(); err == nil && fi.IsDir() {
+		return nil, &Error{File: path, Msg: "cannot read the study file: it is a directory"}
+	}
+	data, err := io.ReadAll(io.LimitReader(f, MaxFileBytes+1))
+	if err != nil {
+		return nil, &Error{File: path, Msg: "cannot read the study file: " + plainOSError(err)}
+	}
+	return Parse(path, data)
+}
+
+func plainOSError(err error) string {
+	var pe *os.PathError
+	if errors.As(err, &pe) {
+		return pe.Err.Error()
+	}
+	return err.Error()
+}
+
+// Parse validates the study file contents data; name is the file name for messages.
+func Parse(name string, data []byte) (*Study, error) {
+	if len(data) > MaxFileBytes {
+		return nil, &Error{File: name, Msg: fmt.Sprintf("the study file is larger than %d bytes (1 MiB); a study file is a few kilobytes", MaxFileBytes)}
+	}
+	if len(bytes.TrimSpace(data)) == 0 {
+		return nil, &Error{File: name, Msg: "the study file is empty; give at least frequency_hz, voltage_kv and [line]"}
+	}
+	var m map[string]any
+	if _, err := toml.NewDecoder(bytes.NewReader(data)).Decode(&m); err != nil {
+		var pe toml.ParseError
+		if errors.As(err, &pe) {
+			return nil, &Error{File: name, Line: max(pe.Position.Line, 1), Msg: "syntax error: " + pe.Message}
+		}
+		return nil, &Error{File: name, Line: 1, Msg: "syntax error: " + err.Error()}
+	}
+	if len(m) == 0 {
+		return nil, &Error{File: name, Msg: "the study file is empty (comments only); give at least frequency_hz, voltage_kv and [line]"}
+	}
+	ld := &Loader{File: name, Study: &Study{File: name}, shared: map[string]any{}}
+	ld.root = &Table{ld: ld, m: m}
+	if err := ld.load(); err != nil {
+		return nil, err
+	}
+	return ld.Study, nil
+}
+
+// load runs the stages in order and returns the first error.
+func (ld *Loader) load() (err error) {
+	root := ld.root
+	known := append([]string{}, rootKeys...)
+	for _, h := range tableHooks {
+		known = append(known, h.Name)
+	}
+	root.Known(known...)
+	ld.system(root)
+	ld.runHooks(BeforeLine)
+	ld.line(root.Sub("line"))
+	ld.source(root.Sub("source"))
+	ld.shunts(root)
+	ld.receiving(root.Sub("receiving"))
+	ld.build()
+	ld.scan(root.Sub("scan"))
+	ld.energise(root.Sub("energise"))
+	ld.runHooks(AfterModels)
+	return ld.Err()
+}
+
+func (ld *Loader) runHooks(stage Stage) {
+	for _, h := range tableHooks {
+		if ld.Failed() {
+			return
+		}
+		if h.Stage != stage {
+			continue
+		}
+		ld.Fail(h.Name, h.Parse(ld, ld.root.Sub(h.Name)))
+	}
+}
+
+// required returns the number at key, recording "missing" with an example when absent.
+func required(t *Table, key, example string) float64 {
+	v, ok := t.Float(key)
+	if !ok && !t.ld.Failed() {
+		t.Errorf(key, "missing: give it, e.g. %s", example)
+	}
+	return v
+}
+
+// Upper bounds that catch typing errors (values beyond are not power lines).
+const (
+	maxFrequencyHz = 1e4  // system frequency
+	maxVoltageKV   = 2000 // line-to-line
+	maxLengthKm    = 1e4  // a line or section
+	maxPerKm       = 1e6  // any per-km constant in its unit
+	maxMVA         = 1e7  // powers
+	maxScanHz      = 1e7  // scan frequencies
+)
+
+func (ld *Loader) system(root *Table) {
+	st := ld.Study
+	if s, ok := root.String("title"); ok {
+		st.Title = s
+		ld.Note("title", fmt.Sprintf("%q", s), "given")
+	}
+	f := required(root, "frequency_hz", "frequency_hz = 50")
+	if ld.Failed() {
+		return
+	}
+	root.Positive("frequency_hz", f)
+	root.AtMost("frequency_hz", f, maxFrequencyHz)
+	v := required(root, "voltage_kv", "voltage_kv = 400")
+	if ld.Failed() {
+		return
+	}
+	root.Positive("voltage_kv", v)
+	root.AtMost("voltage_kv", v, maxVoltageKV)
+	st.Frequency, st.Voltage = f, v*1e3
+	ld.Note("frequency_hz", fmt.Sprintf("%g Hz", f), "given")
+	ld.Note("voltage_kv", fmt.Sprintf("%g kV line-to-line rms", v), "given")
+	if us, ok := root.Float("us_kv"); ok {
+		root.Positive("us_kv", us)
+		root.AtMost("us_kv", us, maxVoltageKV)
+		if !ld.Failed() && us < v {
+			root.Errorf("us_kv", "the highest voltage for equipment must be >= voltage_kv (%g), got %g", v, us)
+		}
+		st.Us = us * 1e3
+		ld.Note("us_kv", fmt.Sprintf("%g kV", us), "given")
+	} else {
+		st.Us = st.Voltage
+		ld.Note("us_kv", fmt.Sprintf("%g kV", v), "default: voltage_kv")
+	}
+}
+
+// omega returns the angular system frequency in rad/s.
+func (ld *Loader) omega() float64 { return 2 * math.Pi * ld.Study.Frequency }
+
+// line reads [line]: either one section (its keys in [line]) or [[line.sections]].
+func (ld *Loader) line(t *Table) {
+	if ld.Failed() {
+		return
+	}
+	if !t.Present() {
+		ld.Errorf("line", "missing: give the line, e.g. [line] with length_km, r_ohm_per_km, l_mh_per_km and c_nf_per_km")
+		return
+	}
+	if t.Has("sections") {
+		for _, k := range orderedKeys(t.Map()) {
+			if k != "sections" {
+				t.Errorf(k, "with [[line.sections]] every key goes into a section; [line] holds only the sections")
+				return
+			}
+		}
+		secs := t.Subs("sections")
+		if ld.Failed() {
+			return
+		}
+		if len(secs) == 0 {
+			t.Errorf("sections", "must have at least one section")
+			return
+		}
+		if len(secs) > MaxSections {
+			t.Errorf("sections", "must have at most %d sections, got %d", MaxSections, len(secs))
+			return
+		}
+		var pos, zero propagation.Cascade
+		for i, s := range secs {
+			p, z := ld.section(s, true)
+			if ld.Failed() {
+				return
+			}
+			if i > 0 && (z != nil) != (len(zero) > 0) {
+				s.Errorf("r0_ohm_per_km", "zero-sequence constants must be given for every section or for none (sections[0] %s them, this one %s them)", haveWord(len(zero) > 0), haveWord(z != nil))
+				return
+			}
+			pos = append(pos, *p)
+			if z != nil {
+				zero = append(zero, *z)
+			}
+		}
+		ld.Study.Line, ld.Study.Zero = pos, zero
+		ld.Note("line.length_km", fmt.Sprintf("%g km in %d sections", pos.Length()/1e3, len(pos)), "sum of the sections")
+		return
+	}
+	p, z := ld.section(t, false)
+	if ld.Failed() {
+		return
+	}
+	ld.Study.Line = propagation.Cascade{*p}
+	if z != nil {
+		ld.Study.Zero = propagation.Cascade{*z}
+	}
+}
+
+func haveWord(b bool) string {
+	if b {
+		return "has"
+	}
+	return "lacks"
+}
+
+// section reads one section's keys (the single [line] or one [[line.sections]] entry)
+// and returns its positive-sequence line and, when given, its zero-sequence line.
+func (ld *Loader) section(t *Table, named bool) (pos, zero *propagation.Line) {
+	known := append([]string{}, sectionKeys...)
+	if !named {
+		known = known[1:] // no name in a single-section [line]
+		known = append(known, lineOnlyKeys...)
+	}
+	for _, h := range sectionHooks {
+		known = append(known, h.Key)
+	}
+	t.Known(known...)
+	var name string
+	if named {
+		name, _ = t.String("name")
+	}
+	length := required(t, "length_km", "length_km = 320")
+	if ld.Failed() {
+		return nil, nil
+	}
+	t.Positive("length_km", length)
+	t.AtMost("length_km", length, maxLengthKm)
+	ld.Note(t.KeyPath("length_km"), fmt.Sprintf("%g km", length), "given")
+	if named && name != "" {
+		ld.Note(t.KeyPath("name"), fmt.Sprintf("%q", name), "given")
+	}
+	for _, h := range sectionHooks {
+		if !t.Has(h.Key) {
+			continue
+		}
+		for _, k := range append(append([]string{}, constantKeys...), zeroKeys...) {
+			if t.Has(k) {
+				t.Errorf(k, "the per-length constants and %s exclude each other; give one or the other", t.KeyPath(h.Key))
+				return nil, nil
+			}
+		}
+		p, z, err := h.Build(ld, t, t.Sub(h.Key))
+		ld.Fail(t.KeyPath(h.Key), err)
+		if ld.Failed() {
+			return nil, nil
+		}
+		if p == nil {
+			t.Errorf(h.Key, "gives no line constants")
+			return nil, nil
+		}
+		pos = &propagation.Line{Name: name, Length: length * 1e3, Constants: p}
+		if z != nil {
+			zero = &propagation.Line{Name: name, Length: length * 1e3, Constants: z}
+		}
+		return pos, zero
+	}
+	rl := ld.rlgc(t, "", "positive-sequence")
+	if ld.Failed() {
+		return nil, nil
+	}
+	pos = &propagation.Line{Name: name, Length: length * 1e3, Constants: rl}
+	anyZero := false
+	for _, k := range zeroKeys {
+		anyZero = anyZero || t.Has(k)
+	}
+	if anyZero {
+		z := ld.rlgc(t, "0", "zero-sequence")
+		if ld.Failed() {
+			return nil, nil
+		}
+		zero = &propagation.Line{Name: name, Length: length * 1e3, Constants: z}
+	}
+	return pos, zero
+}
+
+// rlgc reads r, l|x, c|b, g with the sequence suffix seq ("" or "0") and converts to SI.
+func (ld *Loader) rlgc(t *Table, seq, what string) propagation.RLGC {
+	w := ld.omega()
+	rk, lk, xk := "r"+seq+"_ohm_per_km", "l"+seq+"_mh_per_km", "x"+seq+"_ohm_per_km"
+	ck, bk, gk := "c"+seq+"_nf_per_km", "b"+seq+"_us_per_km", "g"+seq+"_us_per_km"
+	var p propagation.RLGC
+	missing := func(key, ex string) {
+		if seq == "0" {
+			t.Errorf(key, "missing: zero-sequence constants need r0_ohm_per_km, l0_mh_per_km (or x0_ohm_per_km) and c0_nf_per_km (or b0_us_per_km); e.g. %s", ex)
+		} else {
+			t.Errorf(key, "missing: give the %s series resistance, e.g. %s", what, ex)
+		}
+	}
+	r, ok := t.Float(rk)
+	if !ok {
+		if !ld.Failed() {
+			missing(rk, rk+" = 0.03")
+		}
+		return p
+	}
+	t.NonNegative(rk, r)
+	t.AtMost(rk, r, maxPerKm)
+	p.R = r / 1e3
+	ld.Note(t.KeyPath(rk), fmt.Sprintf("%g ohm/km", r), "given")
+
+	switch t.Exclusive(lk, xk) {
+	case lk:
+		l, _ := t.Float(lk)
+		t.Positive(lk, l)
+		t.AtMost(lk, l, maxPerKm)
+		p.L = l * 1e-6
+		ld.Note(t.KeyPath(lk), fmt.Sprintf("%g mH/km", l), "given")
+	case xk:
+		x, _ := t.Float(xk)
+		t.Positive(xk, x)
+		t.AtMost(xk, x, maxPerKm)
+		p.L = x / w / 1e3
+		ld.Note(t.KeyPath(lk), fmt.Sprintf("%.6g mH/km", p.L*1e6), fmt.Sprintf("from %s = %g ohm/km at %g Hz", xk, x, ld.Study.Frequency))
+	default:
+		if !ld.Failed() {
+			if seq == "0" {
+				missing(lk, lk+" = 3.0")
+			} else {
+				t.Errorf(lk, "missing: give the %s inductance %s or reactance %s, e.g. %s = 0.95", what, lk, xk, lk)
+			}
+		}
+		return p
+	}
+	switch t.Exclusive(ck, bk) {
+	case ck:
+		c, _ := t.Float(ck)
+		t.Positive(ck, c)
+		t.AtMost(ck, c, maxPerKm)
+		p.C = c * 1e-12
+		ld.Note(t.KeyPath(ck), fmt.Sprintf("%g nF/km", c), "given")
+	case bk:
+		b, _ := t.Float(bk)
+		t.Positive(bk, b)
+		t.AtMost(bk, b, maxPerKm)
+		p.C = b * 1e-6 / w / 1e3
+		ld.Note(t.KeyPath(ck), fmt.Sprintf("%.6g nF/km", p.C*1e12), fmt.Sprintf("from %s = %g uS/km at %g Hz", bk, b, ld.Study.Frequency))
+	default:
+		if !ld.Failed() {
+			if seq == "0" {
+				missing(ck, ck+" = 7.5")
+			} else {
+				t.Errorf(ck, "missing: give the %s capacitance %s or susceptance %s, e.g. %s = 12", what, ck, bk, ck)
+			}
+		}
+		return p
+	}
+	if g, ok := t.Float(gk); ok {
+		t.NonNegative(gk, g)
+		t.AtMost(gk, g, maxPerKm)
+		p.G = g * 1e-9
+		ld.Note(t.KeyPath(gk), fmt.Sprintf("%g uS/km", g), "given")
+	} else {
+		ld.Note(t.KeyPath(gk), "0 uS/km", "default")
+	}
+	return p
+}

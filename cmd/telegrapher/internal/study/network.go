@@ -1,0 +1,446 @@
+package study
+
+// [source], [[shunt]], [receiving], [scan] and [energise], and the network models
+// built from them.
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+
+	"github.com/telegrapher/telegrapher/freqscan"
+)
+
+// source reads [source]: a short-circuit level with X/R, or R with L (or X).
+//
+//	|Z| = V²/S,  R = |Z|/sqrt(1 + (X/R)²),  X = R·(X/R),  L = X/ω
+func (ld *Loader) source(t *Table) {
+	if ld.Failed() {
+		return
+	}
+	sp := &ld.Study.Source
+	sp.X0OverX1 = 1
+	if k, ok := t.Float("x0_over_x1"); ok {
+		t.Positive("x0_over_x1", k)
+		t.AtMost("x0_over_x1", k, 1000)
+		sp.X0OverX1, sp.HasX0OverX1 = k, true
+	}
+	if !t.Present() {
+		sp.Ideal = true
+		ld.Note("source", "ideal (zero impedance)", "default: no [source]")
+		return
+	}
+	t.Known(sourceKeys...)
+	w, v := ld.omega(), ld.Study.Voltage
+	scForm := t.Has("short_circuit_mva") || t.Has("x_over_r")
+	rlForm := t.Has("r_ohm") || t.Has("l_mh") || t.Has("x_ohm")
+	switch {
+	case ld.Failed():
+		return
+	case scForm && rlForm:
+		first := "short_circuit_mva"
+		if !t.Has(first) {
+			first = "x_over_r"
+		}
+		second := "r_ohm"
+		for _, k := range []string{"r_ohm", "l_mh", "x_ohm"} {
+			if t.Has(k) {
+				second = k
+				break
+			}
+		}
+		t.Errorf(second, "the source is given two ways (%s and %s); give short_circuit_mva with x_over_r, or r_ohm with l_mh (or x_ohm)", t.KeyPath(first), t.KeyPath(second))
+		return
+	case scForm:
+		s := required(t, "short_circuit_mva", "short_circuit_mva = 15000")
+		k := required(t, "x_over_r", "x_over_r = 12")
+		t.Positive("short_circuit_mva", s)
+		t.AtMost("short_circuit_mva", s, maxMVA)
+		t.Positive("x_over_r", k)
+		t.AtMost("x_over_r", k, 1e4)
+		if ld.Failed() {
+			return
+		}
+		z := v * v / (s * 1e6)
+		r := z / math.Sqrt(1+k*k)
+		sp.ShortCircuitVA, sp.XOverR, sp.R, sp.L = s*1e6, k, r, r*k/w
+		ld.Note("source.short_circuit_mva", fmt.Sprintf("%g MVA", s), "given")
+		ld.Note("source.x_over_r", fmt.Sprintf("%g", k), "given")
+		ld.Note("source.r_ohm", fmt.Sprintf("%.6g ohm", sp.R), fmt.Sprintf("from |Z| = V^2/S = %.6g ohm", z))
+		ld.Note("source.l_mh", fmt.Sprintf("%.6g mH (X = %.6g ohm at %g Hz)", sp.L*1e3, r*k, ld.Study.Frequency), "from X/R")
+	case rlForm:
+		r := required(t, "r_ohm", "r_ohm = 0.9")
+		if ld.Failed() {
+			return
+		}
+		t.NonNegative("r_ohm", r)
+		t.AtMost("r_ohm", r, 1e6)
+		sp.R = r
+		ld.Note("source.r_ohm", fmt.Sprintf("%g ohm", r), "given")
+		switch t.Exclusive("l_mh", "x_ohm") {
+		case "l_mh":
+			l, _ := t.Float("l_mh")
+			t.NonNegative("l_mh", l)
+			t.AtMost("l_mh", l, 1e6)
+			sp.L = l * 1e-3
+			ld.Note("source.l_mh", fmt.Sprintf("%g mH", l), "given")
+		case "x_ohm":
+			x, _ := t.Float("x_ohm")
+			t.NonNegative("x_ohm", x)
+			t.AtMost("x_ohm", x, 1e6)
+			sp.L = x / w
+			ld.Note("source.l_mh", fmt.Sprintf("%.6g mH", sp.L*1e3), fmt.Sprintf("from x_ohm = %g ohm at %g Hz", x, ld.Study.Frequency))
+		default:
+			if !ld.Failed() {
+				t.Errorf("l_mh", "missing: give the source inductance l_mh (0 for a resistive source) or reactance x_ohm, with r_ohm")
+			}
+		}
+	default:
+		if !ld.Failed() {
+			t.Errorf("short_circuit_mva", "missing: give short_circuit_mva with x_over_r, or r_ohm with l_mh (or x_ohm); leave out [source] for an ideal source")
+		}
+		return
+	}
+	if sp.HasX0OverX1 {
+		ld.Note("source.x0_over_x1", fmt.Sprintf("%g", sp.X0OverX1), "given")
+	} else {
+		ld.Note("source.x0_over_x1", "1", "default")
+	}
+	sp.Ideal = sp.R == 0 && sp.L == 0
+}
+
+// shunts reads [[shunt]]: a rating Q at voltage_kv and frequency_hz gives X = V²/|Q|;
+// a reactor L = X/ω, a capacitor C = 1/(ωX); q_factor gives R = X/q in series.
+func (ld *Loader) shunts(root *Table) {
+	if ld.Failed() {
+		return
+	}
+	tabs := root.Subs("shunt")
+	if len(tabs) > MaxShunts {
+		root.Errorf("shunt", "must have at most %d entries, got %d", MaxShunts, len(tabs))
+		return
+	}
+	w, v := ld.omega(), ld.Study.Voltage
+	for _, t := range tabs {
+		t.Known(shuntKeys...)
+		name, _ := t.String("name")
+		at, ok := t.String("at")
+		if !ok && !ld.Failed() {
+			t.Errorf("at", `missing: give at = "sending" or at = "receiving"`)
+		}
+		t.OneOf("at", at, "sending", "receiving")
+		conn, ok := t.String("connection")
+		if !ok && !ld.Failed() {
+			t.Errorf("connection", `missing: give connection = "line" (switched with the line) or connection = "bus"`)
+		}
+		t.OneOf("connection", conn, "line", "bus")
+		q := required(t, "mvar", "mvar = 150 (a reactor; negative for a capacitor)")
+		if ld.Failed() {
+			return
+		}
+		if q == 0 {
+			t.Errorf("mvar", "must not be 0 (> 0 reactor, < 0 capacitor), got 0")
+			return
+		}
+		t.AtMost("mvar", math.Abs(q), maxMVA)
+		sh := freqscan.Shunt{Name: name, OnLine: conn == "line"}
+		if at == "receiving" {
+			sh.End = freqscan.Receiving
+		}
+		x := v * v / (math.Abs(q) * 1e6)
+		kind := "reactor"
+		if q > 0 {
+			sh.L = x / w
+		} else {
+			sh.C = 1 / (w * x)
+			kind = "capacitor"
+		}
+		losses := "lossless"
+		if qf, ok := t.Float("q_factor"); ok {
+			t.Positive("q_factor", qf)
+			t.AtMost("q_factor", qf, 1e6)
+			if ld.Failed() {
+				return
+			}
+			sh.R = x / qf
+			losses = fmt.Sprintf("q_factor %g: R = %.6g ohm in series", qf, sh.R)
+		}
+		if ld.Failed() {
+			return
+		}
+		val := fmt.Sprintf("%g Mvar %s at the %s end, %s-connected; ", math.Abs(q), kind, at, conn)
+		if sh.L > 0 {
+			val += fmt.Sprintf("L = %.6g H", sh.L)
+		} else {
+			val += fmt.Sprintf("C = %.6g uF", sh.C*1e6)
+		}
+		ld.Note(t.Path(), val+", "+losses, fmt.Sprintf("from X = V^2/|Q| = %.6g ohm", x))
+		ld.Study.Network.Shunts = append(ld.Study.Network.Shunts, sh)
+	}
+}
+
+// receiving reads [receiving]: the load R = V²/P in parallel with L = V²/(Qω) (Q > 0)
+// or C = |Q|/(V²ω) (Q < 0), and the receiving-end system for loadability.
+func (ld *Loader) receiving(t *Table) {
+	if ld.Failed() || !t.Present() {
+		if !t.Present() {
+			ld.Note("receiving", "nothing beyond the line", "default: no [receiving]")
+		}
+		return
+	}
+	t.Known(receivingKeys...)
+	rs := &ld.Study.Receiving
+	w, v := ld.omega(), ld.Study.Voltage
+	if p, ok := t.Float("load_mw"); ok {
+		t.NonNegative("load_mw", p)
+		t.AtMost("load_mw", p, maxMVA)
+		rs.LoadW = p * 1e6
+		if p > 0 {
+			ld.Study.Network.Load.R = v * v / rs.LoadW
+		}
+		if p > 0 {
+			ld.Note("receiving.load_mw", fmt.Sprintf("%g MW: R = %.6g ohm in parallel", p, ld.Study.Network.Load.R), "given")
+		} else {
+			ld.Note("receiving.load_mw", "0 MW: no resistive load", "given")
+		}
+	}
+	if q, ok := t.Float("load_mvar"); ok {
+		t.AtMost("load_mvar", math.Abs(q), maxMVA)
+		rs.LoadVar = q * 1e6
+		switch {
+		case q > 0:
+			ld.Study.Network.Load.L = v * v / (rs.LoadVar * w)
+			ld.Note("receiving.load_mvar", fmt.Sprintf("%g Mvar: L = %.6g H in parallel", q, ld.Study.Network.Load.L), "given")
+		case q < 0:
+			ld.Study.Network.Load.C = -rs.LoadVar / (v * v * w)
+			ld.Note("receiving.load_mvar", fmt.Sprintf("%g Mvar: C = %.6g uF in parallel", q, ld.Study.Network.Load.C*1e6), "given")
+		default:
+			ld.Note("receiving.load_mvar", "0 Mvar", "given")
+		}
+	}
+	if t.Has("short_circuit_mva") || t.Has("x_over_r") {
+		s := required(t, "short_circuit_mva", "short_circuit_mva = 8000")
+		k := required(t, "x_over_r", "x_over_r = 10")
+		t.Positive("short_circuit_mva", s)
+		t.AtMost("short_circuit_mva", s, maxMVA)
+		t.Positive("x_over_r", k)
+		t.AtMost("x_over_r", k, 1e4)
+		rs.ShortCircuitVA, rs.XOverR = s*1e6, k
+		ld.Note("receiving.short_circuit_mva", fmt.Sprintf("%g MVA, X/R %g", s, k), "given")
+	}
+}
+
+// build assembles the positive- and zero-sequence networks.
+func (ld *Loader) build() {
+	if ld.Failed() {
+		return
+	}
+	st := ld.Study
+	st.Network.Source = freqscan.Source{R: st.Source.R, L: st.Source.L}
+	st.Network.Line = st.Line
+	if st.Zero == nil {
+		ld.Note("line (zero sequence)", "not given: triplen harmonics and switching need r0, l0|x0, c0|b0", "absent")
+		return
+	}
+	k := st.Source.X0OverX1
+	zn := freqscan.Network{
+		Source: freqscan.Source{R: st.Source.R * k, L: st.Source.L * k},
+		Line:   st.Zero,
+		Shunts: append([]freqscan.Shunt(nil), st.Network.Shunts...),
+	}
+	st.ZeroNetwork = &zn
+	ld.Note("zero-sequence network", fmt.Sprintf("source impedance x %g, the same shunts (solidly earthed), no load", k), "built")
+}
+
+// scan reads [scan].
+func (ld *Loader) scan(t *Table) {
+	if ld.Failed() {
+		return
+	}
+	t.Known(scanKeys...)
+	sc := &ld.Study.Scan
+	f0 := ld.Study.Frequency
+	note := func(key, val string, given bool) {
+		how := "default"
+		if given {
+			how = "given"
+		}
+		ld.Note("scan."+key, val, how)
+	}
+	var ok bool
+	if sc.FMin, ok = t.Float("f_min_hz"); ok {
+		t.Positive("f_min_hz", sc.FMin)
+	} else {
+		sc.FMin = 1
+	}
+	note("f_min_hz", fmt.Sprintf("%g Hz", sc.FMin), ok)
+	if sc.FMax, ok = t.Float("f_max_hz"); !ok {
+		sc.FMax = 50 * f0
+	}
+	t.AtMost("f_max_hz", sc.FMax, maxScanHz)
+	if !ld.Failed() && !(sc.FMax > sc.FMin) {
+		t.Errorf("f_max_hz", "must be > f_min_hz (%g), got %g", sc.FMin, sc.FMax)
+	}
+	note("f_max_hz", fmt.Sprintf("%g Hz", sc.FMax), ok)
+	n, ok := t.Int("points")
+	if !ok {
+		n = 5000
+	}
+	t.Between("points", float64(n), 2, MaxScanPoints)
+	sc.Points = int(n)
+	note("points", strconv.Itoa(sc.Points), ok)
+	grid, ok := t.String("grid")
+	if !ok {
+		grid = "linear"
+	}
+	t.OneOf("grid", grid, "linear", "log")
+	sc.Log = grid == "log"
+	note("grid", grid, ok)
+
+	hs, ok := t.Ints("watch_harmonics")
+	if ok {
+		sc.WatchHarmonics = make([]int, len(hs))
+		for i, h := range hs {
+			t.Between(fmt.Sprintf("watch_harmonics[%d]", i), float64(h), 1, 1000)
+			sc.WatchHarmonics[i] = int(h)
+		}
+	} else {
+		for h := 3; h <= 25; h += 2 {
+			sc.WatchHarmonics = append(sc.WatchHarmonics, h)
+		}
+	}
+	note("watch_harmonics", fmt.Sprint(sc.WatchHarmonics), ok)
+	if sc.GainLimit, ok = t.Float("gain_limit"); ok {
+		t.Positive("gain_limit", sc.GainLimit)
+	} else {
+		sc.GainLimit = 2
+	}
+	note("gain_limit", fmt.Sprintf("%g", sc.GainLimit), ok)
+	pct, ok := t.Float("watch_band_pct")
+	if ok {
+		if !(pct > 0 && pct < 50) {
+			t.Errorf("watch_band_pct", "must be > 0 and < 50, got %g", pct)
+		}
+	} else {
+		pct = 10
+	}
+	sc.WatchBand = pct / 100
+	note("watch_band_pct", fmt.Sprintf("+-%g %%", pct), ok)
+	sc.BackgroundPct = ld.harmonicTable(t, "background_pct")
+	sc.PlanningPct = ld.harmonicTable(t, "planning_pct")
+	if sc.BackgroundPct != nil {
+		note("background_pct", fmt.Sprint(sc.BackgroundPct), true)
+	}
+	if sc.PlanningPct != nil {
+		note("planning_pct", fmt.Sprint(sc.PlanningPct), true)
+	}
+	if r, ok := t.Floats("short_circuit_mva_range"); ok {
+		if len(r) != 2 {
+			t.Errorf("short_circuit_mva_range", "must be [min, max], got %d numbers", len(r))
+		} else if !(r[0] > 0 && r[1] > r[0] && r[1] <= maxMVA) {
+			t.Errorf("short_circuit_mva_range", "must be [min, max] with 0 < min < max <= %g, got [%g, %g]", float64(maxMVA), r[0], r[1])
+		} else {
+			sc.ShortCircuitRange = [2]float64{r[0] * 1e6, r[1] * 1e6}
+			note("short_circuit_mva_range", fmt.Sprintf("%g to %g MVA", r[0], r[1]), true)
+		}
+	}
+	steps, ok := t.Int("steps")
+	if !ok {
+		steps = 20
+	}
+	t.Between("steps", float64(steps), 2, 200)
+	sc.ShortCircuitSteps = int(steps)
+	if sc.ShortCircuitRange[1] > 0 || ok {
+		note("steps", strconv.Itoa(sc.ShortCircuitSteps), ok)
+	}
+}
+
+// harmonicTable reads an inline table keyed by harmonic number, e.g. { 5 = 1.5 }, with
+// values in percent (0 to 100).
+func (ld *Loader) harmonicTable(t *Table, key string) map[int]float64 {
+	sub := t.Sub(key)
+	if ld.Failed() || !sub.Present() {
+		return nil
+	}
+	out := map[int]float64{}
+	keys := orderedKeys(sub.Map())
+	for _, k := range keys {
+		h, err := strconv.Atoi(k)
+		if err != nil || h < 1 || h > 1000 {
+			sub.Errorf(k, "must be a harmonic number 1 to 1000 as key, e.g. { 5 = 1.5, 7 = 1.0 }")
+			return nil
+		}
+		v, _ := sub.Float(k)
+		sub.Between(k, v, 0, 100)
+		out[h] = v
+	}
+	if ld.Failed() {
+		return nil
+	}
+	return out
+}
+
+// energise reads [energise].
+func (ld *Loader) energise(t *Table) {
+	if ld.Failed() {
+		return
+	}
+	t.Known(energiseKeys...)
+	e := &ld.Study.Energise
+	note := func(key, val string, given bool) {
+		how := "default"
+		if given {
+			how = "given"
+		}
+		ld.Note("energise."+key, val, how)
+	}
+	var ok bool
+	if e.Waveform, ok = t.String("waveform"); !ok {
+		e.Waveform = "step"
+	}
+	t.OneOf("waveform", e.Waveform, "step", "sine")
+	note("waveform", e.Waveform, ok)
+	if e.CloseDeg, ok = t.Float("close_deg"); !ok {
+		e.CloseDeg = 90
+	}
+	t.Between("close_deg", e.CloseDeg, -360, 360)
+	if e.Waveform == "sine" || ok {
+		v := fmt.Sprintf("%g deg", e.CloseDeg)
+		if e.Waveform != "sine" {
+			v += " (used by waveform = \"sine\" only)"
+		}
+		note("close_deg", v, ok)
+	}
+	e.TrappedPU, ok = t.Float("trapped_pu")
+	t.Between("trapped_pu", e.TrappedPU, -2, 2)
+	note("trapped_pu", fmt.Sprintf("%g pu", e.TrappedPU), ok)
+	ms, ok := t.Float("duration_ms")
+	if !ok {
+		ms = 20
+	}
+	t.Positive("duration_ms", ms)
+	t.AtMost("duration_ms", ms, 10_000)
+	e.Duration = ms / 1e3
+	note("duration_ms", fmt.Sprintf("%g ms", ms), ok)
+	us, ok := t.Float("time_step_us")
+	t.NonNegative("time_step_us", us)
+	if !ld.Failed() && us > 0 {
+		if n := ms * 1e3 / us; n > MaxSamples {
+			t.Errorf("time_step_us", "gives %.0f samples over duration_ms = %g; at most %d, so time_step_us must be at least %g, got %g", n, ms, MaxSamples, ms*1e3/MaxSamples, us)
+		}
+		if us*1e-3 > ms {
+			t.Errorf("time_step_us", "must be shorter than duration_ms (%g ms), got %g us", ms, us)
+		}
+	}
+	e.TimeStep = us / 1e6
+	if us == 0 {
+		note("time_step_us", "0: chosen by the method", ok)
+	} else {
+		note("time_step_us", fmt.Sprintf("%g us", us), ok)
+	}
+	if e.Method, ok = t.String("method"); !ok {
+		e.Method = "laplace"
+	}
+	t.OneOf("method", e.Method, "lattice", "bergeron", "laplace")
+	note("method", e.Method, ok)
+}

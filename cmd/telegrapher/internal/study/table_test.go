@@ -1,0 +1,107 @@
+package study
+
+import (
+	"strings"
+	"testing"
+
+	"github.com/BurntSushi/toml"
+)
+
+// fakeTable decodes src and returns its root table in a fresh load.
+func fakeTable(t *testing.T, src string) (*Loader, *Table) {
+	t.Helper()
+	st, err := Parse("probe.toml", []byte(base))
+	if err != nil {
+		t.Fatal(err)
+	}
+	ld := &Loader{File: "t.toml", Study: st, shared: map[string]any{}}
+	var m map[string]any
+	if err := decodeForTest(src, &m); err != nil {
+		t.Fatal(err)
+	}
+	ld.root = &Table{ld: ld, m: m}
+	return ld, ld.root
+}
+
+// The table reader used by registered parsers: values, key paths, sticky errors.
+func TestTableReader(t *testing.T) {
+	t.Parallel()
+	ld, root := fakeTable(t, `
+a = 1.5
+n = 7
+s = "x"
+b = true
+fs = [1, 2.5]
+is = [3, 5]
+[sub]
+k = 2
+[[arr]]
+v = 1
+[[arr]]
+v = "bad"
+`)
+	if v, ok := root.Float("a"); !ok || v != 1.5 {
+		t.Errorf("Float = %v %v", v, ok)
+	}
+	if v, ok := root.Float("n"); !ok || v != 7 {
+		t.Errorf("Float of an integer = %v %v", v, ok)
+	}
+	if v, ok := root.Int("n"); !ok || v != 7 {
+		t.Errorf("Int = %v %v", v, ok)
+	}
+	if v, ok := root.String("s"); !ok || v != "x" {
+		t.Errorf("String = %v", v)
+	}
+	if v, ok := root.Bool("b"); !ok || !v {
+		t.Errorf("Bool = %v", v)
+	}
+	if v, ok := root.Floats("fs"); !ok || len(v) != 2 || v[1] != 2.5 {
+		t.Errorf("Floats = %v", v)
+	}
+	if v, ok := root.Ints("is"); !ok || v[1] != 5 {
+		t.Errorf("Ints = %v", v)
+	}
+	if _, ok := root.Float("absent"); ok || ld.Failed() {
+		t.Errorf("absent key given or failed")
+	}
+	sub := root.Sub("sub")
+	if !sub.Present() || sub.KeyPath("k") != "sub.k" || root.Sub("nothing").Present() {
+		t.Errorf("Sub paths wrong")
+	}
+	arr := root.Subs("arr")
+	if len(arr) != 2 || arr[1].Path() != "arr[1]" {
+		t.Fatalf("Subs = %v", arr)
+	}
+	if root.Exclusive("a", "zz") != "a" || ld.Failed() {
+		t.Errorf("Exclusive")
+	}
+	arr[1].Float("v")
+	err := ld.Err()
+	if err == nil || !strings.HasPrefix(err.Error(), "t.toml: arr[1].v: must be a number, got the string") {
+		t.Fatalf("error %v", err)
+	}
+	// Sticky: later problems do not replace the first, later reads return zero.
+	root.Errorf("a", "second problem")
+	if v, ok := root.Float("a"); ok || v != 0 || !strings.Contains(ld.Err().Error(), "arr[1].v") {
+		t.Errorf("error not sticky: %v", ld.Err())
+	}
+}
+
+func TestTableKnownAndExclusive(t *testing.T) {
+	t.Parallel()
+	ld, root := fakeTable(t, "shots = 1\nsede = 2\n")
+	root.Known("shots", "seed")
+	if e := ld.err; e == nil || e.Key != "sede" || !strings.Contains(e.Msg, `did you mean "seed"`) {
+		t.Errorf("Known: %v", ld.Err())
+	}
+	ld, root = fakeTable(t, "l = 1\nx = 2\n")
+	root.Exclusive("l", "x")
+	if e := ld.err; e == nil || e.Key != "x" || !strings.Contains(e.Msg, "alternatives") {
+		t.Errorf("Exclusive: %v", ld.Err())
+	}
+}
+
+func decodeForTest(src string, m *map[string]any) error {
+	_, err := toml.Decode(src, m)
+	return err
+}
