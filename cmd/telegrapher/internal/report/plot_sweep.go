@@ -106,7 +106,7 @@ func sweepPlots(d SweepData, legends bool) ([]*plot.Plot, error) {
 		}
 		// A logarithmic axis only where the values span more than a decade or so;
 		// below that its ticks would go unlabelled.
-		if pan.logY && yMax > 20*yMin {
+		if pan.logY && yMin > 0 && yMax > 20*yMin {
 			p.Y.Scale = plot.LogScale{}
 			p.Y.Tick.Marker = plot.LogTicks{Prec: -1}
 			if yMax <= yMin*1.5 {
