@@ -28,6 +28,8 @@ type Study struct {
 
 	// Understood lists what the loader read, in file order, for `check`.
 	Understood []Entry
+
+	switchingOpts SwitchingOptions // [switching] keys beyond the contract's
 }
 
 // SourceSpec is the sending-end source as given.

@@ -17,11 +17,8 @@ package study
 import (
 	"fmt"
 	"math"
-	"runtime"
 	"sort"
 	"strings"
-	"sync"
-	"weak"
 
 	"github.com/telegrapher/telegrapher/waves"
 )
@@ -74,29 +71,12 @@ func init() {
 	})
 }
 
-// switchingOptions holds the options of each study, keyed by a weak pointer to it and
-// dropped when the study is collected.
-var switchingOptions sync.Map // weak.Pointer[Study] -> SwitchingOptions
-
 // SwitchingOptions returns the study's [switching] keys beyond the contract's (the
-// zero value when the study has none or was not loaded from a file). They belong to
-// the *Study the loader returned: a copy (st2 := *st) starts without them until
-// st2.SetSwitchingOptions(st.SwitchingOptions()).
-func (st *Study) SwitchingOptions() SwitchingOptions {
-	if v, ok := switchingOptions.Load(weak.Make(st)); ok {
-		return v.(SwitchingOptions)
-	}
-	return SwitchingOptions{}
-}
+// zero value when the study has none). A copy of the study (st2 := *st) carries them.
+func (st *Study) SwitchingOptions() SwitchingOptions { return st.switchingOpts }
 
-// SetSwitchingOptions attaches options to a study (for studies built in code, and for
-// copies of a loaded study).
-func (st *Study) SetSwitchingOptions(o SwitchingOptions) {
-	k := weak.Make(st)
-	if _, loaded := switchingOptions.Swap(k, o); !loaded {
-		runtime.AddCleanup(st, func(k weak.Pointer[Study]) { switchingOptions.Delete(k) }, k)
-	}
-}
+// SetSwitchingOptions sets them, for studies built in code.
+func (st *Study) SetSwitchingOptions(o SwitchingOptions) { st.switchingOpts = o }
 
 // swError is an input error of [switching]: FILE: key.path: problem.
 type swError struct{ msg string }
