@@ -1,0 +1,351 @@
+package main
+
+// The batch command: screening of a line inventory, one line per CSV row.
+//
+//	parseBatch(file, r)        the rows, validated (batch_rows.go): errors read
+//	                           `LINES.csv: row N: column: problem`, exit 2
+//	screenLine(file, line)     one row as a study (through the study loader) screened by
+//	                           computeScan and computeEnergise: SIL, first resonance,
+//	                           worst watched harmonic, energisation peak, flags
+//	screenInventory(...)       every row, in parallel over the cores (batch_run.go)
+//	batchTable(results)        the summary table, worst first
+//
+// The output folder follows the report's rules (outputFolder): batch.csv and
+// batch.html, moved into place only when complete.
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"math/cmplx"
+	"os"
+	"sort"
+	"strings"
+	"time"
+
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
+)
+
+// openEndRiseScreenPU is the no-load receiving-end voltage (over the sending end) above
+// which a line is flagged: 5 % is the usual allowance for the open-end rise of an
+// uncompensated line (common practice, no source).
+const openEndRiseScreenPU = 1.05
+
+func init() {
+	register(&command{
+		name:  "batch",
+		args:  "LINES.csv --out DIR [--force] [--jobs N]",
+		short: "screening of a line inventory (one line per CSV row)",
+		long: `
+Screens every line of an inventory (a CSV file, one line per row, columns named in the
+first row; see "Line inventories" in the README) and writes one summary table, worst
+first, to DIR/batch.csv and DIR/batch.html.
+
+Each row becomes a study with the defaults of a study file (scan 1 Hz to 50 harmonics,
+energisation by the numerical Laplace transform, a 1 pu step). For each line: the SIL,
+the open-end (Ferranti) rise, the first resonance of the gain |Vr/E| and its gain, the
+watched harmonic with the largest gain within its band, the open-end energisation peak,
+and the flags: a watched harmonic over the gain limit (2.0), an energisation peak above
+2.0 pu, an open-end rise above 1.05 pu. "severity" is the largest of gain / limit,
+peak / 2.0 and rise / 1.05; the table is sorted by it, so the lines that most exceed a
+screening level come first (severity > 1 means flagged).
+
+Rows are screened in parallel over the cores (--jobs); a progress bar is drawn on
+standard error when it is a terminal. DIR follows the rules of the report command:
+built beside, moved into place when complete, and an existing folder not written by
+telegrapher is replaced only with --force.`,
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+			out := fs.String("out", "", "write the summary into folder `DIR` (required)")
+			force := fs.Bool("force", false, "replace DIR even when it was not written by telegrapher")
+			jobs := fs.Int("jobs", 0, "screen `N` lines at a time (0: one per core)")
+			return func(args []string) error {
+				const usage = "usage: telegrapher batch LINES.csv --out DIR [--force] [--jobs N]"
+				if len(args) != 1 {
+					return usagef("telegrapher batch: expected one LINES.csv file, got %d arguments\n%s", len(args), usage)
+				}
+				if *out == "" {
+					return usagef("telegrapher batch: --out DIR is required\n%s", usage)
+				}
+				if *jobs < 0 {
+					return usagef("telegrapher batch: --jobs: must be >= 0, got %d", *jobs)
+				}
+				f, err := os.Open(args[0])
+				if err != nil {
+					var pe *os.PathError
+					if errors.As(err, &pe) {
+						err = pe.Err
+					}
+					return usagef("%s: cannot read the inventory: %v", args[0], err)
+				}
+				lines, err := parseBatch(args[0], f)
+				f.Close()
+				if err != nil {
+					return err
+				}
+				var progress func(int)
+				if isTerminal(stderr) {
+					progress = batchProgressBar(stderr, len(lines), "lines")
+				}
+				results, err := screenInventory(args[0], lines, *jobs, progress)
+				if err != nil {
+					return err
+				}
+				if err := writeBatch(results, args[0], *out, *force); err != nil {
+					return err
+				}
+				printBatch(stdout, results, *out)
+				return nil
+			}
+		},
+	})
+}
+
+// batchResult is the screening of one line.
+type batchResult struct {
+	Row  int
+	Name string
+
+	SILMW          float64
+	OpenEndRisePU  float64
+	FirstHz        float64 // 0 = no resonance in the band
+	FirstHarmonic  float64
+	FirstGain      float64 // +Inf when unbounded
+	WorstOrder     int     // 0 = no watched harmonic in the band
+	WorstBandGain  float64
+	GainLimit      float64
+	EnergisePeakPU float64 // signed
+	EnergiseTMs    float64
+	Flags          []string
+	Severity       float64
+}
+
+// screenLine screens one row.
+func screenLine(file string, bl batchLine) (batchResult, error) {
+	name := fmt.Sprintf("%s: row %d", file, bl.Row)
+	st, err := study.Parse(name, bl.studyTOML())
+	if err != nil {
+		return batchResult{}, err
+	}
+	r := batchResult{Row: bl.Row, Name: bl.Name}
+	w := 2 * math.Pi * st.Frequency
+	for _, l := range st.Line {
+		r.SILMW += l.SIL(st.Voltage, w) / 1e6 / float64(len(st.Line))
+	}
+	// Open-end rise with the line-connected reactors in place (they are switched with
+	// the line): Vr/Vs = 1/(A + B·Yr).
+	s := complex(0, w)
+	_, _, yr, _ := st.Network.Energising().Admittances(s)
+	r.OpenEndRisePU = cmplx.Abs(st.Line.Exact(s).VoltageRatio(yr))
+
+	sc, err := computeScan(st)
+	if err != nil {
+		return batchResult{}, err
+	}
+	r.GainLimit = sc.GainLimit
+	for _, p := range sc.Peaks {
+		if r.FirstHz == 0 || p.FHz < r.FirstHz {
+			r.FirstHz, r.FirstHarmonic, r.FirstGain = p.FHz, p.Harmonic, p.Gain
+			if p.Unbounded {
+				r.FirstGain = math.Inf(1)
+			}
+		}
+	}
+	for _, h := range sc.Harmonics {
+		if h.Watched && (r.WorstOrder == 0 || h.BandGain > r.WorstBandGain) {
+			r.WorstOrder, r.WorstBandGain = h.Order, h.BandGain
+		}
+	}
+	en, err := computeEnergise(st, "")
+	if err != nil {
+		return batchResult{}, err
+	}
+	r.EnergisePeakPU, r.EnergiseTMs = en.PeakPU, en.TPeakMs
+
+	ratio := func(v, limit float64) float64 {
+		if math.IsInf(v, 1) {
+			return math.MaxFloat64
+		}
+		return v / limit
+	}
+	r.Severity = math.Max(ratio(r.OpenEndRisePU, openEndRiseScreenPU), ratio(math.Abs(r.EnergisePeakPU), energisePeakScreenPU))
+	for _, h := range sc.Harmonics {
+		if h.Watched && h.OverLimit {
+			r.Flags = append(r.Flags, fmt.Sprintf("h%d gain %s > %g", h.Order, fmtGain(h.BandGain), sc.GainLimit))
+		}
+		if h.Watched && sc.GainLimit > 0 {
+			r.Severity = math.Max(r.Severity, ratio(h.BandGain, sc.GainLimit))
+		}
+	}
+	if math.Abs(r.EnergisePeakPU) > energisePeakScreenPU {
+		r.Flags = append(r.Flags, fmt.Sprintf("energisation %.2f pu > %.1f", math.Abs(r.EnergisePeakPU), energisePeakScreenPU))
+	}
+	if r.OpenEndRisePU > openEndRiseScreenPU {
+		r.Flags = append(r.Flags, fmt.Sprintf("open-end rise %.3f pu > %.2f", r.OpenEndRisePU, openEndRiseScreenPU))
+	}
+	return r, nil
+}
+
+// screenInventory screens every line on up to jobs goroutines (0 = one per core) and
+// returns the results worst first. The first error (in row order) is returned.
+func screenInventory(file string, lines []batchLine, jobs int, progress func(int)) ([]batchResult, error) {
+	results := make([]batchResult, len(lines))
+	errs := make([]error, len(lines))
+	parallelEach(len(lines), jobs, 200*time.Millisecond, progress, func(i int) {
+		defer func() {
+			if p := recover(); p != nil {
+				errs[i] = fmt.Errorf("%s: row %d: internal error (a bug, please report it): %v", file, lines[i].Row, p)
+			}
+		}()
+		results[i], errs[i] = screenLine(file, lines[i])
+	})
+	for _, err := range errs {
+		if err != nil {
+			return nil, err
+		}
+	}
+	sort.SliceStable(results, func(a, b int) bool {
+		if results[a].Severity != results[b].Severity {
+			return results[a].Severity > results[b].Severity
+		}
+		return results[a].Row < results[b].Row
+	})
+	return results, nil
+}
+
+// batchTable is the summary table, in the order of results. A gain that is unbounded
+// (a lossless network) is written "unbounded" (no Inf reaches an output).
+func batchTable(results []batchResult) (*report.Table, error) {
+	t := report.NewTable("rank", "row", "name", "severity", "sil_mw", "open_end_rise_pu",
+		"first_resonance_hz", "first_resonance_harmonic", "first_resonance_gain",
+		"worst_watched_harmonic", "worst_watched_gain", "gain_limit",
+		"energise_peak_pu", "energise_t_peak_ms", "flags")
+	for i, r := range results {
+		first := []any{"", "", ""}
+		if r.FirstHz > 0 {
+			first = []any{r.FirstHz, r.FirstHarmonic, r.FirstGain}
+			if math.IsInf(r.FirstGain, 1) {
+				first[2] = "unbounded"
+			}
+		}
+		worst := []any{"", ""}
+		if r.WorstOrder > 0 {
+			worst = []any{r.WorstOrder, r.WorstBandGain}
+			if math.IsInf(r.WorstBandGain, 1) {
+				worst[1] = "unbounded"
+			}
+		}
+		sev := any(r.Severity)
+		if r.Severity == math.MaxFloat64 {
+			sev = "unbounded"
+		}
+		row := []any{i + 1, r.Row, r.Name, sev, r.SILMW, r.OpenEndRisePU}
+		row = append(row, first...)
+		row = append(row, worst...)
+		row = append(row, r.GainLimit, r.EnergisePeakPU, r.EnergiseTMs, strings.Join(r.Flags, "; "))
+		if err := t.Add(row...); err != nil {
+			return nil, fmt.Errorf("row %d (%s): %w", r.Row, r.Name, err)
+		}
+	}
+	return t, nil
+}
+
+// batchView is the table as the HTML page shows it: rounded, with units in the headers.
+func batchView(results []batchResult) *report.Table {
+	t := report.NewTable("rank", "row", "name", "severity", "SIL (MW)", "open-end rise (pu)",
+		"first resonance", "worst watched harmonic", "energisation peak (pu)", "flags")
+	g := func(v float64) string {
+		if math.IsInf(v, 1) || v == math.MaxFloat64 {
+			return "unbounded"
+		}
+		return fmt.Sprintf("%.3g", v)
+	}
+	for i, r := range results {
+		first, worst := "none in band", "none"
+		if r.FirstHz > 0 {
+			first = fmt.Sprintf("h %.2f (%.4g Hz), gain %s", r.FirstHarmonic, r.FirstHz, g(r.FirstGain))
+		}
+		if r.WorstOrder > 0 {
+			worst = fmt.Sprintf("h%d, gain %s", r.WorstOrder, g(r.WorstBandGain))
+		}
+		flags := strings.Join(r.Flags, "; ")
+		if flags == "" {
+			flags = "none"
+		}
+		_ = t.Add(fmt.Sprint(i+1), fmt.Sprint(r.Row), r.Name, g(r.Severity), fmt.Sprintf("%.0f", r.SILMW),
+			fmt.Sprintf("%.3f", r.OpenEndRisePU), first, worst, fmt.Sprintf("%+.3f", r.EnergisePeakPU), flags)
+	}
+	return t
+}
+
+// writeBatch writes batch.csv and batch.html into the folder out.
+func writeBatch(results []batchResult, file, out string, force bool) error {
+	t, err := batchTable(results)
+	if err != nil {
+		return err
+	}
+	folder, err := newOutputFolder(out, force)
+	if err != nil {
+		return err
+	}
+	committed := false
+	defer func() {
+		if !committed {
+			folder.discard()
+		}
+	}()
+	flagged := 0
+	for _, r := range results {
+		if len(r.Flags) > 0 {
+			flagged++
+		}
+	}
+	sec := report.Section{ID: "inventory", Title: "Line inventory screening", Verdict: report.Pass,
+		Reading: fmt.Sprintf("%d lines screened, %d flagged", len(results), flagged),
+		Tables:  []report.TableView{{Caption: "Worst first (severity: largest ratio of a result to its screening level)", Table: batchView(results)}},
+		Files:   []string{"batch.csv"},
+		Notes: []string{
+			fmt.Sprintf("Screening levels: gain within ±10 %% of a watched harmonic (odd 3 to 25) against the gain limit; open-end energisation peak (1 pu step, numerical Laplace transform, far end open) against %.1f pu; open-end rise at the system frequency against %.2f pu.", energisePeakScreenPU, openEndRiseScreenPU),
+			"Each line uses the defaults of a study file; give a line its own study file for anything beyond the inventory's columns (zero-sequence data, loads, settings).",
+		}}
+	if flagged > 0 {
+		sec.Verdict = report.Flagged
+	}
+	doc := &report.Document{Title: "telegrapher batch screening: " + file, StudyFile: file, InputLabel: "Line inventory",
+		Generator: "telegrapher " + version, Caution: Caution, Sections: []report.Section{sec}}
+	page, err := report.HTML(doc)
+	if err != nil {
+		return err
+	}
+	if err := folder.write("batch.csv", t.CSV()); err != nil {
+		return err
+	}
+	if err := folder.write("batch.html", page); err != nil {
+		return err
+	}
+	if err := folder.commit(); err != nil {
+		return err
+	}
+	committed = true
+	return nil
+}
+
+// printBatch prints the worst lines and where the table is.
+func printBatch(w io.Writer, results []batchResult, out string) {
+	flagged := 0
+	for _, r := range results {
+		if len(r.Flags) > 0 {
+			flagged++
+		}
+	}
+	fmt.Fprintf(w, "%d lines screened, %d flagged.\n", len(results), flagged)
+	for i, r := range results {
+		if i == 10 || len(r.Flags) == 0 {
+			break
+		}
+		fmt.Fprintf(w, "  %2d. %-28s (row %d): %s\n", i+1, r.Name, r.Row, strings.Join(r.Flags, "; "))
+	}
+	fmt.Fprintf(w, "Summary table: %s and %s\n\n%s\n", out+string(os.PathSeparator)+"batch.csv", out+string(os.PathSeparator)+"batch.html", Caution)
+}

@@ -1,0 +1,92 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"runtime"
+	"strings"
+	"sync"
+	"sync/atomic"
+	"time"
+)
+
+// parallelEach calls work(i) for i in [0, n) on up to workers goroutines (0 = one per
+// core). It calls progress(done) from one goroutine at most every tick and once at the
+// end; progress may be nil.
+func parallelEach(n, workers int, tick time.Duration, progress func(done int), work func(i int)) {
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = min(workers, n)
+	var next, done atomic.Int64
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				i := int(next.Add(1) - 1)
+				if i >= n {
+					return
+				}
+				work(i)
+				done.Add(1)
+			}
+		}()
+	}
+	stop := make(chan struct{})
+	var pwg sync.WaitGroup
+	if progress != nil {
+		pwg.Add(1)
+		go func() {
+			defer pwg.Done()
+			t := time.NewTicker(tick)
+			defer t.Stop()
+			for {
+				select {
+				case <-stop:
+					return
+				case <-t.C:
+					progress(int(done.Load()))
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	close(stop)
+	pwg.Wait()
+	if progress != nil {
+		progress(n)
+	}
+}
+
+// isTerminal reports whether w is a terminal (a character device), where a progress
+// bar belongs; not a file or a pipe.
+func isTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	info, err := f.Stat()
+	return err == nil && info.Mode()&os.ModeCharDevice != 0
+}
+
+// batchProgressBar returns a progress function drawing a bar of done/total on w, redrawn in
+// place with a carriage return, and ended by a line break when done == total.
+func batchProgressBar(w io.Writer, total int, what string) func(done int) {
+	const width = 30
+	start := time.Now()
+	return func(done int) {
+		filled := width * done / max(total, 1)
+		eta := ""
+		if done > 0 && done < total {
+			left := time.Since(start) / time.Duration(done) * time.Duration(total-done)
+			eta = fmt.Sprintf(", about %s left", left.Round(time.Second))
+		}
+		fmt.Fprintf(w, "\r[%s%s] %d/%d %s%s   ", strings.Repeat("#", filled), strings.Repeat("-", width-filled), done, total, what, eta)
+		if done >= total {
+			fmt.Fprintf(w, "\r[%s] %d/%d %s in %s        \n", strings.Repeat("#", width), total, total, what, time.Since(start).Round(100*time.Millisecond))
+		}
+	}
+}
