@@ -30,6 +30,7 @@ type Study struct {
 	Understood []Entry
 
 	switchingOpts SwitchingOptions // [switching] keys beyond the contract's
+	remedy        RemedySpec       // [targets] and [levers]
 }
 
 // SourceSpec is the sending-end source as given.

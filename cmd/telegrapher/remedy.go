@@ -1,0 +1,633 @@
+package main
+
+// The remedy command: the cheapest change of the study's levers that meets every
+// target (contract: "Remedies"; the search and the cost weights are at the top of
+// remedy_search.go).
+//
+//	computeRemedy(st) (remedyResult, error)   the search: feasible, changes, before and
+//	                                          after, binding target, cost, margins left;
+//	                                          remedyResult is also the --json document
+//	remedyPlots(r) ([]*plot.Plot, error)      the trade-off plots (report.RemedyResonancePlot:
+//	                                          first resonance against added reactor with the
+//	                                          watched harmonics marked; report.RemedyGainPlot:
+//	                                          watched gain against added reactor, with a gain
+//	                                          target; report.RemedyResistorPlot: u2 against
+//	                                          the pre-insertion resistor)
+//	printRemedy(w, r)                         the text summary
+//	remedyReportPart(st)                      the report's "remedies" section (with the
+//	                                          plots for the report to write), ok false
+//	                                          when the study has no [targets]
+//
+// computeRemedy returns an input error (exit 2) when the study has no [targets].
+
+import (
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"strings"
+	"sync"
+	"time"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/vg"
+
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
+	"github.com/telegrapher/telegrapher/freqscan"
+)
+
+func init() {
+	register(&command{
+		name:  "remedy",
+		args:  "STUDY [--json] [--plot F]",
+		short: "cheapest change of the levers that meets the study's targets",
+		long: `
+Searches the levers of [levers] for the cheapest change that meets every target of
+[targets]:
+
+  [targets]  max_open_end_pu   no-load |Vr/Vs| at frequency_hz (with line-connected shunts)
+             max_gain_watched  largest gain |Vr/E| within the watch band of a watched harmonic
+             max_u2_pu         statistical switching u2 (IEC 60071-1 base)
+             min_margin_pct    least margin to switching.siwl_kv
+  [levers]   reactor_mvar_sending, reactor_mvar_receiving = [min, max]  line-connected
+             reactors added (none, or a rating within the range); preinsertion_ohm =
+             [min, max]; controlled_closing = true (each pole closes where the voltage
+             across its contacts is zero, scattered by controlled_sigma_ms, default 1);
+             arresters_kv = [ratings]  arresters at both line ends
+
+Every candidate is evaluated by the computations of the ordinary commands on a modified
+copy of the study (open end as 'loading', screening as 'scan', statistical switching as
+'switching', with the study's seed). Cost units: reactor 30 per end plus 1 per Mvar,
+pre-insertion resistor 60, controlled closing 40, arresters 15; added reactors have
+X/R = 300.
+
+Reports the cheapest change with the figures before and after and the margin left to
+each target; where nothing meets the targets, the closest case and the target that
+binds. --json writes feasible, changes, before, after, binding, cost, margins_left;
+--plot writes the trade-offs (first resonance against reactor rating with the watched
+harmonics marked; u2 against the pre-insertion resistor).`,
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+			asJSON := fs.Bool("json", false, "write the results as one JSON document")
+			plotPath := fs.String("plot", "", "write the trade-off plots to `F` (.png or .svg)")
+			return func(args []string) error {
+				if len(args) != 1 {
+					return usagef("telegrapher remedy: expected one STUDY file, got %d arguments\nusage: telegrapher remedy STUDY [--json] [--plot F]", len(args))
+				}
+				format := ""
+				if *plotPath != "" {
+					f, err := report.PlotFormat(*plotPath, "plot")
+					if err != nil {
+						return usagef("%v", err)
+					}
+					format = f
+				}
+				st, err := study.Load(args[0])
+				if err != nil {
+					if study.IsInputError(err) {
+						return usagef("%v", err)
+					}
+					return err
+				}
+				res, err := computeRemedyProgress(st, remedyProgressBar(stderr))
+				if err != nil {
+					return err
+				}
+				if *plotPath != "" {
+					plots, err := remedyPlots(&res)
+					if err != nil {
+						return usagef("--plot %s: %v", *plotPath, err)
+					}
+					b, err := report.RenderLoadingFigure(plots, 20*vg.Centimeter, 11*vg.Centimeter, format)
+					if err != nil {
+						return err
+					}
+					if err := report.WriteFileAtomic(*plotPath, b); err != nil {
+						return fmt.Errorf("--plot %s: %v", *plotPath, err)
+					}
+				}
+				if *asJSON {
+					return writeJSON(stdout, &res)
+				}
+				printRemedy(stdout, &res)
+				return nil
+			}
+		},
+	})
+}
+
+// remedyFigures are the figures of the study before or after the change (the keys
+// that apply: the switching ones only with a switching target).
+type remedyFigures struct {
+	OpenEndPU        *float64 `json:"open_end_pu,omitempty"`
+	GainWatched      *float64 `json:"gain_watched,omitempty"`
+	U2PU             *float64 `json:"u2_pu,omitempty"`
+	MarginPct        *float64 `json:"margin_pct,omitempty"`
+	FirstResonanceHz *float64 `json:"first_resonance_hz,omitempty"`
+}
+
+// remedyChanges are the levers that change, keyed as [levers].
+type remedyChanges struct {
+	ReactorMvarSending   *float64 `json:"reactor_mvar_sending,omitempty"`
+	ReactorMvarReceiving *float64 `json:"reactor_mvar_receiving,omitempty"`
+	PreinsertionOhm      *float64 `json:"preinsertion_ohm,omitempty"`
+	ControlledClosing    *bool    `json:"controlled_closing,omitempty"`
+	ControlledSigmaMs    *float64 `json:"controlled_sigma_ms,omitempty"`
+	ArrestersKV          *float64 `json:"arresters_kv,omitempty"`
+}
+
+// remedyTargetsJSON are the targets as given.
+type remedyTargetsJSON struct {
+	MaxOpenEndPU   *float64 `json:"max_open_end_pu,omitempty"`
+	MaxGainWatched *float64 `json:"max_gain_watched,omitempty"`
+	MaxU2PU        *float64 `json:"max_u2_pu,omitempty"`
+	MinMarginPct   *float64 `json:"min_margin_pct,omitempty"`
+}
+
+// remedyCostWeights states the cost model.
+type remedyCostWeights struct {
+	ReactorPerMvar float64 `json:"reactor_per_mvar"`
+	ReactorPerEnd  float64 `json:"reactor_per_end"`
+	Preinsertion   float64 `json:"preinsertion"`
+	Controlled     float64 `json:"controlled_closing"`
+	Arresters      float64 `json:"arresters"`
+}
+
+// remedyResult is the whole remedy search; it is also the --json document.
+type remedyResult struct {
+	Title    string        `json:"title,omitempty"`
+	Feasible bool          `json:"feasible"`
+	Changes  remedyChanges `json:"changes"`
+	Before   remedyFigures `json:"before"`
+	After    remedyFigures `json:"after"`
+	Binding  string        `json:"binding,omitempty"`
+	// MarginsLeft is, per target, how far the result is inside it, in the target's
+	// unit (limit - value for a maximum, value - limit for a minimum; < 0 = missed).
+	MarginsLeft     map[string]float64 `json:"margins_left"`
+	Cost            float64            `json:"cost"`
+	CostWeights     remedyCostWeights  `json:"cost_weights"`
+	Targets         remedyTargetsJSON  `json:"targets"`
+	CandidatesTried int                `json:"candidates_tried"`
+	SwitchingRuns   int                `json:"switching_runs"`
+	Notes           []string           `json:"notes"`
+	Caution         string             `json:"caution"`
+
+	// For the plots.
+	frequencyHz float64
+	watch       []int
+	watchBand   float64
+	sweepEnd    string    // "receiving" or "sending": the end the resonance sweep varies
+	sweepMvar   []float64 // added rating at that end
+	sweepFirst  []float64 // first resonance, harmonic order (0 = none in the scan)
+	sweepGain   []float64 // largest watched-harmonic gain
+	targetGain  float64
+	chosenMvar  float64 // the proposed rating at that end
+	pir         []remedyPIRSample
+	chosenOhm   float64
+	targetU2    float64
+}
+
+// computeRemedy searches st's levers for the cheapest change meeting its targets.
+func computeRemedy(st *study.Study) (remedyResult, error) { return computeRemedyProgress(st, nil) }
+
+func computeRemedyProgress(st *study.Study, progress func(done, total int)) (remedyResult, error) {
+	var res remedyResult
+	spec := st.Remedy()
+	if !spec.Present {
+		return res, usagef("%s: targets: the study has no [targets]; give e.g. [targets] max_open_end_pu = 1.05 and [levers] reactor_mvar_receiving = [0, 300]", st.File)
+	}
+	rs, err := newRemedySearch(st, progress)
+	if err != nil {
+		return res, err
+	}
+	if progress != nil {
+		defer progress(-1, 0)
+	}
+	tg, lv := spec.Targets, spec.Levers
+	res.Title, res.Caution = st.Title, Caution
+	res.CostWeights = remedyCostWeights{remedyCostPerMvar, remedyCostReactorBay, remedyCostPreinsertion, remedyCostControlled, remedyCostArresters}
+	res.Targets = remedyTargetsJSON{MaxOpenEndPU: optF(tg.HasOpenEnd, tg.OpenEndPU), MaxGainWatched: optF(tg.HasGainWatched, tg.GainWatched),
+		MaxU2PU: optF(tg.HasU2, tg.U2PU), MinMarginPct: optF(tg.HasMargin, tg.MarginPct)}
+
+	full := func(c remedyCandidate) (remedyEval, remedyFigures, error) {
+		e, err := rs.evalAll(c)
+		if err != nil {
+			return e, remedyFigures{}, err
+		}
+		g, first := remedyWatchedGain(remedyStudy(st, c), rs.freqs)
+		e.figs.Gain, e.figs.FirstResonanceHz = g, first
+		e = rs.judge(c, e.figs)
+		return e, figuresJSON(e.figs, st.Frequency), nil
+	}
+	before, bf, err := full(remedyCandidate{})
+	if err != nil {
+		return res, err
+	}
+	res.Before = bf
+	var chosen remedyEval
+	feasible := false
+	capped := false
+	switch {
+	case before.violation == 0:
+		chosen, feasible = before, true
+		res.Notes = append(res.Notes, "the study as given meets every target: no change is needed")
+	default:
+		keep, closest, err := rs.reactorStage()
+		if err != nil {
+			return res, err
+		}
+		switch {
+		case len(keep) == 0:
+			chosen = closest
+			if tg.Switching() {
+				// The closest reactors with the most protective switching levers.
+				c := closest.cand
+				c.Controlled = lv.Controlled
+				if len(lv.ArrestersV) > 0 {
+					c.ArresterV = lv.ArrestersV[0]
+				}
+				if lv.Preinsertion != nil {
+					if c.Preinsertion, err = rs.bestResistor(c); err != nil {
+						return res, err
+					}
+				}
+				chosen = remedyEval{cand: c}
+			}
+		case !tg.Switching():
+			chosen, feasible = keep[0], true
+		default:
+			best, ok, cp, err := rs.switchingStage(keep)
+			if err != nil {
+				return res, err
+			}
+			chosen, feasible, capped = best, ok, cp
+		}
+	}
+	// Round the proposal to what a study file would say (0.1 Mvar, 1 ohm) when it
+	// still meets the targets, and evaluate it in full.
+	c := chosen.cand
+	if c != (remedyCandidate{}) {
+		r := c
+		up := func(q float64, rg *study.Range) float64 {
+			if q == 0 || rg == nil {
+				return q
+			}
+			return math.Min(math.Ceil(q/1e5)*1e5, rg.Max)
+		}
+		r.ReactorSending = up(r.ReactorSending, lv.ReactorSending)
+		r.ReactorReceiving = up(r.ReactorReceiving, lv.ReactorReceiving)
+		if rg := lv.Preinsertion; rg != nil && r.Preinsertion > 0 {
+			r.Preinsertion = math.Max(rg.Min, math.Min(rg.Max, math.Round(r.Preinsertion)))
+		}
+		if !feasible {
+			c = r
+		} else if e, _, err := full(r); err == nil && e.violation == 0 {
+			c = r
+		}
+	}
+	after, af, err := full(c)
+	if err != nil {
+		return res, err
+	}
+	if feasible && after.violation > 0 {
+		feasible = false
+	}
+	res.After, res.Feasible = af, feasible
+	if !feasible {
+		res.Binding = after.binding
+		if res.Binding == "" {
+			res.Binding = before.binding
+		}
+	}
+	res.Cost = c.cost()
+	res.Changes = changesJSON(c, lv)
+	res.MarginsLeft = marginsLeft(tg, after.figs)
+	res.CandidatesTried, res.SwitchingRuns = rs.evals, rs.runs
+	if capped {
+		res.Notes = append(res.Notes, fmt.Sprintf("the search stopped after %d statistical switching runs: the closest case found is shown", remedyMaxSwitching))
+	}
+	if !tg.Switching() && (lv.Preinsertion != nil || lv.Controlled || len(lv.ArrestersV) > 0) {
+		res.Notes = append(res.Notes, "levers preinsertion_ohm, controlled_closing and arresters_kv act on switching overvoltages only; with no switching target they are not used")
+	}
+	if tg.Switching() {
+		res.Notes = append(res.Notes, fmt.Sprintf("switching figures: %d seeded shots (switching.seed %d) per candidate, the study's [switching] settings", st.Switching.Shots, st.Switching.Seed))
+	}
+	if c.Controlled {
+		res.Notes = append(res.Notes, "controlled closing is not a [switching] setting: the 'switching' command cannot reproduce it; the figures here come from the same simulator with each pole aimed where the voltage across its contacts is zero")
+	}
+	if c.ReactorSending > 0 || c.ReactorReceiving > 0 {
+		res.Notes = append(res.Notes, fmt.Sprintf("to apply: add a [[shunt]] with connection = \"line\", the rating as mvar and q_factor = %d at each end that changes", remedyReactorQ))
+	}
+
+	// Plot data: the first resonance against the reactor at one end (the other end as
+	// proposed), and u2 against the resistor.
+	res.frequencyHz, res.watch, res.watchBand = st.Frequency, st.Scan.WatchHarmonics, st.Scan.WatchBand
+	if res.watch == nil {
+		res.watch = freqscan.DefaultWatch()
+	}
+	if res.watchBand == 0 {
+		res.watchBand = freqscan.DefaultWatchBand
+	}
+	if r := lv.ReactorReceiving; r != nil || lv.ReactorSending != nil {
+		end := "receiving"
+		if r == nil {
+			r, end = lv.ReactorSending, "sending"
+		}
+		res.sweepEnd = end
+		const n = 41
+		for i := 0; i < n; i++ {
+			q := r.Max * float64(i) / (n - 1)
+			sc := c
+			if end == "receiving" {
+				sc.ReactorReceiving = q
+			} else {
+				sc.ReactorSending = q
+			}
+			g, first := remedyWatchedGain(remedyStudy(st, sc), rs.freqs)
+			res.sweepMvar = append(res.sweepMvar, q/1e6)
+			res.sweepFirst = append(res.sweepFirst, first/st.Frequency)
+			res.sweepGain = append(res.sweepGain, g)
+		}
+		res.chosenMvar = c.ReactorReceiving / 1e6
+		if end == "sending" {
+			res.chosenMvar = c.ReactorSending / 1e6
+		}
+	}
+	res.pir = rs.pirSamples[[2]float64{chosen.cand.ReactorSending, chosen.cand.ReactorReceiving}]
+	res.chosenOhm, res.targetU2, res.targetGain = c.Preinsertion, tg.U2PU, tg.GainWatched
+	return res, nil
+}
+
+func optF(ok bool, v float64) *float64 {
+	if !ok {
+		return nil
+	}
+	return &v
+}
+
+func figuresJSON(f remedyFigs, f0 float64) remedyFigures {
+	out := remedyFigures{OpenEndPU: optF(true, f.OpenEnd), GainWatched: optF(true, f.Gain)}
+	if f.FirstResonanceHz > 0 {
+		out.FirstResonanceHz = optF(true, f.FirstResonanceHz)
+	}
+	if f.HasSw {
+		out.U2PU = optF(true, f.U2)
+	}
+	if f.HasMargin {
+		out.MarginPct = optF(true, f.Margin)
+	}
+	return out
+}
+
+func changesJSON(c remedyCandidate, lv study.Levers) remedyChanges {
+	var ch remedyChanges
+	if c.ReactorSending > 0 {
+		ch.ReactorMvarSending = optF(true, c.ReactorSending/1e6)
+	}
+	if c.ReactorReceiving > 0 {
+		ch.ReactorMvarReceiving = optF(true, c.ReactorReceiving/1e6)
+	}
+	if c.Preinsertion > 0 {
+		ch.PreinsertionOhm = optF(true, c.Preinsertion)
+	}
+	if c.Controlled {
+		t := true
+		ch.ControlledClosing = &t
+		ch.ControlledSigmaMs = optF(true, lv.ControlledSigma*1e3)
+	}
+	if c.ArresterV > 0 {
+		ch.ArrestersKV = optF(true, c.ArresterV/1e3)
+	}
+	return ch
+}
+
+func marginsLeft(tg study.Targets, f remedyFigs) map[string]float64 {
+	m := map[string]float64{}
+	if tg.HasOpenEnd {
+		m["max_open_end_pu"] = tg.OpenEndPU - f.OpenEnd
+	}
+	if tg.HasGainWatched {
+		m["max_gain_watched"] = tg.GainWatched - f.Gain
+	}
+	if tg.HasU2 && f.HasSw {
+		m["max_u2_pu"] = tg.U2PU - f.U2
+	}
+	if tg.HasMargin && f.HasMargin {
+		m["min_margin_pct"] = f.Margin - tg.MarginPct
+	}
+	return m
+}
+
+// remedyPlots returns the trade-off plots the study's levers allow.
+func remedyPlots(r *remedyResult) ([]*plot.Plot, error) {
+	var plots []*plot.Plot
+	if len(r.sweepMvar) > 0 {
+		var w []float64
+		for _, h := range r.watch {
+			w = append(w, float64(h))
+		}
+		d := report.RemedyResonanceData{
+			Mvar: r.sweepMvar, FirstHarmonic: r.sweepFirst, Watched: w, Band: r.watchBand,
+			ChosenMvar: r.chosenMvar, End: r.sweepEnd, Gain: r.sweepGain, TargetGain: r.targetGain,
+		}
+		plots = append(plots, report.RemedyResonancePlot(d))
+		if r.targetGain > 0 {
+			plots = append(plots, report.RemedyGainPlot(d))
+		}
+	}
+	if len(r.pir) > 1 {
+		d := report.RemedyResistorData{ChosenOhm: r.chosenOhm, TargetU2: r.targetU2}
+		for _, s := range r.pir {
+			d.Ohm = append(d.Ohm, s.Ohm)
+			d.U2 = append(d.U2, s.U2)
+		}
+		plots = append(plots, report.RemedyResistorPlot(d))
+	}
+	if len(plots) == 0 {
+		return nil, fmt.Errorf("nothing to plot: the trade-off plots need a reactor lever, or a preinsertion_ohm lever searched for a switching target")
+	}
+	return plots, nil
+}
+
+func printRemedy(w io.Writer, r *remedyResult) {
+	if r.Title != "" {
+		fmt.Fprintln(w, r.Title)
+	}
+	if r.Feasible {
+		fmt.Fprintf(w, "Remedy: every target met, cost %.1f units\n", r.Cost)
+	} else {
+		fmt.Fprintf(w, "Remedy: no change within the levers meets every target; closest case shown (cost %.1f units); binding target: %s\n", r.Cost, r.Binding)
+	}
+	ch := remedyChangeWords(r.Changes)
+	if len(ch) == 0 {
+		ch = []string{"none"}
+	}
+	fmt.Fprintln(w, "\nChanges:")
+	for _, s := range ch {
+		fmt.Fprintln(w, "  "+s)
+	}
+	fmt.Fprintf(w, "\n%-34s %12s %12s %12s %12s\n", "", "before", "after", "target", "margin left")
+	row := func(name, key string, b, a, t *float64, unit string) {
+		if b == nil && a == nil {
+			return
+		}
+		cell := func(p *float64) string {
+			if p == nil {
+				return "-"
+			}
+			if math.IsInf(*p, 0) {
+				return "unbounded"
+			}
+			return fmt.Sprintf("%.4g", *p)
+		}
+		left := "-"
+		if m, ok := r.MarginsLeft[key]; ok {
+			left = fmt.Sprintf("%+.3g", m)
+			if math.IsInf(m, 0) {
+				left = "unbounded"
+			}
+		}
+		fmt.Fprintf(w, "%-34s %12s %12s %12s %12s\n", name+" ("+unit+")", cell(b), cell(a), cell(t), left)
+	}
+	row("open-end voltage", "max_open_end_pu", r.Before.OpenEndPU, r.After.OpenEndPU, r.Targets.MaxOpenEndPU, "pu")
+	row("gain near watched harmonics", "max_gain_watched", r.Before.GainWatched, r.After.GainWatched, r.Targets.MaxGainWatched, "-")
+	row("switching u2", "max_u2_pu", r.Before.U2PU, r.After.U2PU, r.Targets.MaxU2PU, "pu")
+	row("margin to SIWL", "min_margin_pct", r.Before.MarginPct, r.After.MarginPct, r.Targets.MinMarginPct, "%")
+	fr := func(p *float64) *float64 {
+		if p == nil {
+			return nil
+		}
+		h := *p / r.frequencyHz
+		return &h
+	}
+	row("first resonance", "", fr(r.Before.FirstResonanceHz), fr(r.After.FirstResonanceHz), nil, "harmonic")
+	fmt.Fprintf(w, "\nCost units: reactor %g per end + %g per Mvar, pre-insertion resistor %g, controlled closing %g, arresters %g\n",
+		r.CostWeights.ReactorPerEnd, r.CostWeights.ReactorPerMvar, r.CostWeights.Preinsertion, r.CostWeights.Controlled, r.CostWeights.Arresters)
+	fmt.Fprintf(w, "Candidates evaluated: %d (statistical switching runs: %d)\n\n", r.CandidatesTried, r.SwitchingRuns)
+	for _, n := range r.Notes {
+		fmt.Fprintln(w, "Note: "+strings.TrimSpace(n))
+	}
+	fmt.Fprintln(w, "\n"+Caution)
+}
+
+// remedyProgressBar returns a progress callback drawing the search's progress (stage
+// by stage: candidates evaluated of the stage's total) on stderr when it is a
+// terminal, or nil. done < 0 clears the line.
+func remedyProgressBar(stderr io.Writer) func(done, total int) {
+	f, ok := stderr.(*os.File)
+	if !ok {
+		return nil
+	}
+	info, err := f.Stat()
+	if err != nil || info.Mode()&os.ModeCharDevice == 0 {
+		return nil
+	}
+	var mu sync.Mutex
+	var last time.Time
+	return func(done, total int) {
+		mu.Lock()
+		defer mu.Unlock()
+		if done < 0 {
+			fmt.Fprint(f, "\r\033[K")
+			return
+		}
+		if done < total && time.Since(last) < 100*time.Millisecond {
+			return
+		}
+		last = time.Now()
+		const width = 40
+		n := min(done*width/max(total, 1), width)
+		fmt.Fprintf(f, "\r[%s%s] %d/%d candidates", strings.Repeat("#", n), strings.Repeat(".", width-n), done, total)
+	}
+}
+
+// remedyFigure is a plot of the remedies section, for the report to write and inline.
+type remedyFigure struct {
+	Name, Title, Alt string // file name (.svg), title, text description
+	Plot             *plot.Plot
+}
+
+// remedyReportPart returns the report's "remedies" section of st and its plots; ok is
+// false when st has no [targets] (the report then has no such section).
+func remedyReportPart(st *study.Study) (sec report.Section, figs []remedyFigure, ok bool, err error) {
+	if !st.Remedy().Present {
+		return sec, nil, false, nil
+	}
+	r, err := computeRemedy(st)
+	if err != nil {
+		return sec, nil, true, err
+	}
+	sec = report.Section{ID: "remedies", Title: "Remedies", Verdict: report.Pass, Notes: r.Notes}
+	changes := remedyChangeWords(r.Changes)
+	switch {
+	case r.Feasible && len(changes) == 0:
+		sec.Reading = "the study as given meets every target"
+	case r.Feasible:
+		sec.Reading = fmt.Sprintf("cheapest change meeting every target (cost %.1f units): %s", r.Cost, strings.Join(changes, "; "))
+	default:
+		sec.Verdict = report.Flagged
+		sec.Reading = fmt.Sprintf("no change within the levers meets every target; binding: %s; closest case: %s", r.Binding, strings.Join(changes, "; "))
+	}
+	fig := func(name string, b, a *float64, unit string, key string) {
+		if b == nil || a == nil {
+			return
+		}
+		v := func(x float64) string {
+			if math.IsInf(x, 0) {
+				return "unbounded"
+			}
+			return fmt.Sprintf("%.4g", x)
+		}
+		f := report.Fact{Name: name, Value: fmt.Sprintf("%s → %s %s", v(*b), v(*a), unit)}
+		if m, has := r.MarginsLeft[key]; has {
+			f.Value += fmt.Sprintf(" (margin left %s)", v(m))
+			f.Flag = m < 0
+		}
+		sec.Facts = append(sec.Facts, f)
+	}
+	fig("open-end voltage, before → after", r.Before.OpenEndPU, r.After.OpenEndPU, "pu", "max_open_end_pu")
+	fig("largest gain near a watched harmonic", r.Before.GainWatched, r.After.GainWatched, "", "max_gain_watched")
+	fig("switching u2", r.Before.U2PU, r.After.U2PU, "pu", "max_u2_pu")
+	fig("margin to SIWL", r.Before.MarginPct, r.After.MarginPct, "%", "min_margin_pct")
+	sec.Facts = append(sec.Facts, report.Fact{Name: "cost units", Value: fmt.Sprintf("reactor %g per end + %g per Mvar, pre-insertion resistor %g, controlled closing %g, arresters %g",
+		r.CostWeights.ReactorPerEnd, r.CostWeights.ReactorPerMvar, r.CostWeights.Preinsertion, r.CostWeights.Controlled, r.CostWeights.Arresters)})
+	plots, perr := remedyPlots(&r)
+	if perr == nil {
+		for _, p := range plots {
+			switch {
+			case strings.HasPrefix(p.Title.Text, "First resonance"):
+				figs = append(figs, remedyFigure{Name: "remedy_resonance.svg", Title: "First resonance against the added reactor", Plot: p,
+					Alt: "first resonance (harmonic order) against the added line-connected reactor rating, watched harmonics and their bands marked, proposed rating marked"})
+			case strings.HasPrefix(p.Title.Text, "Largest gain"):
+				figs = append(figs, remedyFigure{Name: "remedy_gain.svg", Title: "Watched-harmonic gain against the added reactor", Plot: p,
+					Alt: "largest gain within the watched harmonic bands against the added reactor rating, target and proposed rating marked"})
+			default:
+				figs = append(figs, remedyFigure{Name: "remedy_resistor.svg", Title: "u2 against the pre-insertion resistor", Plot: p,
+					Alt: "statistical switching u2 against the pre-insertion resistor value, target and proposed value marked"})
+			}
+		}
+	}
+	return sec, figs, true, nil
+}
+
+// remedyChangeWords describes the changes in words.
+func remedyChangeWords(c remedyChanges) []string {
+	var ch []string
+	if c.ReactorMvarSending != nil {
+		ch = append(ch, fmt.Sprintf("add a %.1f Mvar line-connected reactor at the sending end", *c.ReactorMvarSending))
+	}
+	if c.ReactorMvarReceiving != nil {
+		ch = append(ch, fmt.Sprintf("add a %.1f Mvar line-connected reactor at the receiving end", *c.ReactorMvarReceiving))
+	}
+	if c.PreinsertionOhm != nil {
+		ch = append(ch, fmt.Sprintf("pre-insertion resistor %.0f ohm", *c.PreinsertionOhm))
+	}
+	if c.ControlledClosing != nil {
+		ch = append(ch, fmt.Sprintf("controlled closing (scatter %.2g ms)", *c.ControlledSigmaMs))
+	}
+	if c.ArrestersKV != nil {
+		ch = append(ch, fmt.Sprintf("surge arresters rated %.0f kV at both line ends", *c.ArrestersKV))
+	}
+	return ch
+}

@@ -1,0 +1,738 @@
+package main
+
+// The remedy search: the cheapest combination of levers ([levers]) that meets every
+// target ([targets]), each candidate evaluated by the computations the ordinary
+// commands use on a modified copy of the study.
+//
+// # Cost
+//
+// Costs are in plain cost units, a ranking device rather than a price list (common
+// practice, no source; the weights are meant to order typical remedies the way
+// planners usually do, cheapest first):
+//
+//	line-connected shunt reactor   remedyCostReactorBay (30) per line end where one is
+//	                               added + remedyCostPerMvar (1) per Mvar
+//	pre-insertion resistor         remedyCostPreinsertion (60), whatever its value
+//	controlled closing             remedyCostControlled (40)
+//	surge arresters at both ends   remedyCostArresters (15), whatever the rating; among
+//	                               ratings of equal cost the highest that meets the
+//	                               targets is preferred (more temporary-overvoltage
+//	                               capability, less energy)
+//
+// # Search
+//
+//  1. Reactors (continuous levers). Every reactor pair of a grid ("none" and
+//     remedyGridSteps ratings across each [min, max]) is evaluated on the frequency
+//     targets (open-end rise by propagation.OpenEnd as `loading` does; watched-harmonic
+//     gain by freqscan.Scan, Peaks and Screen as `scan` does). From each grid pair that
+//     meets them while its lower neighbours do not (the frontier: a pair above a
+//     feasible one costs more), each added rating is lowered by bisection while the
+//     targets stay met (the open-end rise falls monotonically as a reactor grows; near
+//     a watched harmonic the bisection finds the edge of the feasible interval the grid
+//     point lies in). The cheapest remedyKeepReactors pairs go on; without a frequency
+//     target every grid pair goes on.
+//  2. Switching levers (discrete ones by enumeration). For each retained reactor pair
+//     and each combination of pre-insertion resistor (none / the value minimising u2),
+//     controlled closing (off / on) and arrester rating (none / each rating), in
+//     increasing order of cost, the statistical switching study is run (seeded, the
+//     study's [switching] settings, waves.NewSwitchingSimulator, Run, Statistics,
+//     MarginPct as `switching` does) until one meets every target. The resistor value
+//     is found once per reactor pair by a grid of remedyPIRGrid values over its range
+//     refined by golden-section search on u2.
+//
+// Where nothing meets the targets, the closest candidate (least worst relative
+// violation) is reported with the target that binds (the one it misses most).
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"sort"
+
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
+	"github.com/telegrapher/telegrapher/freqscan"
+	"github.com/telegrapher/telegrapher/propagation"
+	"github.com/telegrapher/telegrapher/waves"
+)
+
+// Cost weights (cost units; see the top of this file).
+const (
+	remedyCostPerMvar      = 1.0
+	remedyCostReactorBay   = 30.0
+	remedyCostPreinsertion = 60.0
+	remedyCostControlled   = 40.0
+	remedyCostArresters    = 15.0
+)
+
+// Search settings.
+const (
+	remedyGridSteps    = 12   // reactor ratings per lever across [min, max]
+	remedyBisections   = 12   // bisection steps lowering a reactor rating
+	remedyKeepReactors = 3    // reactor pairs carried to the switching stage
+	remedyPIRGrid      = 7    // resistor values of the first pass
+	remedyGolden       = 8    // golden-section steps refining the resistor value
+	remedyMaxSwitching = 160  // cap on statistical switching runs per search
+	remedyReactorQ     = 300  // X/R of an added reactor (common practice for EHV shunt reactors, no source)
+	remedyTol          = 1e-9 // relative slack on a target (rounding)
+)
+
+// remedyCandidate is one setting of the levers; zero values are "no change".
+type remedyCandidate struct {
+	ReactorSending   float64 // var added, line-connected at the sending end
+	ReactorReceiving float64 // var added at the receiving end
+	Preinsertion     float64 // ohm; 0 = the study's setting
+	Controlled       bool
+	ArresterV        float64 // rated voltage (rms V) of arresters added at both ends; 0 = none
+}
+
+// cost returns the candidate's cost in cost units.
+func (c remedyCandidate) cost() float64 {
+	var k float64
+	for _, q := range []float64{c.ReactorSending, c.ReactorReceiving} {
+		if q > 0 {
+			k += remedyCostReactorBay + remedyCostPerMvar*q/1e6
+		}
+	}
+	if c.Preinsertion > 0 {
+		k += remedyCostPreinsertion
+	}
+	if c.Controlled {
+		k += remedyCostControlled
+	}
+	if c.ArresterV > 0 {
+		k += remedyCostArresters
+	}
+	return k
+}
+
+// remedyFigs are the figures of one candidate on the targets' measures.
+type remedyFigs struct {
+	OpenEnd, Gain    float64 // open-end |Vr/Vs|; largest watched-harmonic band gain
+	U2, Margin       float64 // u2 (pu, IEC 60071-1 base); margin to siwl (%)
+	HasSw, HasMargin bool    // switching figures computed; margin computed
+	FirstResonanceHz float64 // lowest positive-sequence gain peak above the fundamental; 0 = none
+}
+
+// remedyEval is a candidate with its figures and how far it is from the targets.
+type remedyEval struct {
+	cand      remedyCandidate
+	figs      remedyFigs
+	violation float64 // largest relative violation over the targets; 0 when all are met
+	binding   string  // the target key violated most ("" when all are met)
+}
+
+// remedySearch holds one search's state.
+type remedySearch struct {
+	st       *study.Study
+	spec     study.RemedySpec
+	freqs    []float64
+	omega    float64
+	modal    waves.ModalLine
+	hasModal bool
+	runs     int // statistical switching runs made
+	evals    int // candidates evaluated
+	progress func(done, total int)
+
+	pirSamples map[[2]float64][]remedyPIRSample // u2 against resistor value, per reactor pair
+}
+
+// remedyPIRSample is one point of u2 against the pre-insertion resistor.
+type remedyPIRSample struct{ Ohm, U2 float64 }
+
+// newRemedySearch prepares a search of st.
+func newRemedySearch(st *study.Study, progress func(done, total int)) (*remedySearch, error) {
+	rs := &remedySearch{st: st, spec: st.Remedy(), omega: 2 * math.Pi * st.Frequency, progress: progress,
+		pirSamples: map[[2]float64][]remedyPIRSample{}}
+	sc := st.Scan
+	if !(sc.FMin > 0 && sc.FMax > sc.FMin) || sc.Points < 2 {
+		return nil, usagef("%s: scan: the grid needs 0 < f_min_hz < f_max_hz and points >= 2", st.File)
+	}
+	if sc.Log {
+		rs.freqs = freqscan.LogGrid(nil, sc.FMin, sc.FMax, sc.Points)
+	} else {
+		rs.freqs = freqscan.LinearGrid(nil, sc.FMin, sc.FMax, sc.Points)
+	}
+	if rs.spec.Targets.Switching() {
+		if err := switchingApplicable(st); err != nil {
+			return nil, err
+		}
+		ml, err := waves.NewModalLine(st.Line, st.Zero, rs.omega)
+		if err != nil {
+			return nil, usagef("%s: line: %v", st.File, err)
+		}
+		rs.modal, rs.hasModal = ml, true
+	}
+	return rs, nil
+}
+
+// remedyStudy returns a copy of st with the candidate's changes: added line-connected
+// reactors in the positive- and zero-sequence networks (the loader gives the zero
+// sequence the same shunts, solidly earthed), the pre-insertion resistor, and
+// arresters at both line ends. st itself is not changed.
+func remedyStudy(st *study.Study, c remedyCandidate) *study.Study {
+	cp := *st
+	opt := st.SwitchingOptions()
+	w, v := 2*math.Pi*st.Frequency, st.Voltage
+	shunts := append([]freqscan.Shunt(nil), st.Network.Shunts...)
+	for _, add := range []struct {
+		q   float64
+		end freqscan.End
+	}{{c.ReactorSending, freqscan.Sending}, {c.ReactorReceiving, freqscan.Receiving}} {
+		if add.q > 0 {
+			x := v * v / add.q
+			shunts = append(shunts, freqscan.Shunt{Name: "added reactor (remedy, " + add.end.String() + ")",
+				End: add.end, OnLine: true, L: x / w, R: x / remedyReactorQ})
+		}
+	}
+	cp.Network.Shunts = shunts
+	if st.ZeroNetwork != nil {
+		zn := *st.ZeroNetwork
+		zn.Shunts = append([]freqscan.Shunt(nil), zn.Shunts...)
+		zn.Shunts = append(zn.Shunts, shunts[len(st.Network.Shunts):]...)
+		cp.ZeroNetwork = &zn
+	}
+	if c.Preinsertion > 0 {
+		cp.Switching.Preinsertion = c.Preinsertion
+	}
+	if c.ArresterV > 0 {
+		opt.Arresters = append(append([]study.ArresterSpec(nil), opt.Arresters...),
+			study.ArresterSpec{Name: "remedy arresters, sending end", At: "sending", RatedV: c.ArresterV, VI: waves.TypicalArrester(c.ArresterV), Typical: true},
+			study.ArresterSpec{Name: "remedy arresters, receiving end", At: "receiving", RatedV: c.ArresterV, VI: waves.TypicalArrester(c.ArresterV), Typical: true})
+	}
+	cp.SetSwitchingOptions(opt)
+	return &cp
+}
+
+// remedyOpenEnd returns the no-load rise |Vr/Vs| at the system frequency with the
+// line-connected shunts, as `loading` computes it (propagation.OpenEnd).
+func remedyOpenEnd(st *study.Study) (float64, error) {
+	s := complex(0, 2*math.Pi*st.Frequency)
+	var ys, yr complex128
+	for _, sh := range st.Network.Shunts {
+		if !sh.OnLine {
+			continue
+		}
+		if sh.End == freqscan.Sending {
+			ys += sh.Admittance(s)
+		} else {
+			yr += sh.Admittance(s)
+		}
+	}
+	r, err := propagation.OpenEnd(st.Line, 2*math.Pi*st.Frequency, st.Voltage, ys, yr)
+	if err != nil {
+		return 0, err
+	}
+	return r.Rise, nil
+}
+
+// remedyWatchedGain returns the largest gain within the watch band of a watched
+// harmonic (screened as `scan` does: freqscan.Scan, Peaks, Screen, triplens on the
+// zero sequence where it exists) and the lowest positive-sequence gain peak above the
+// fundamental (0 when none).
+func remedyWatchedGain(st *study.Study, freqs []float64) (gain, first float64) {
+	sc := st.Scan
+	pos := freqscan.Scan(nil, st.Network, freqs)
+	posPeaks := freqscan.Peaks(st.Network, pos)
+	var zero []freqscan.Point
+	var zeroPeaks []freqscan.Peak
+	if st.ZeroNetwork != nil {
+		zero = freqscan.Scan(nil, *st.ZeroNetwork, freqs)
+		zeroPeaks = freqscan.Peaks(*st.ZeroNetwork, zero)
+	}
+	scr := freqscan.Screen(st.Network, pos, posPeaks, st.ZeroNetwork, zero, zeroPeaks, freqscan.ScreenSettings{
+		Fundamental: st.Frequency, FMax: sc.FMax, Watch: sc.WatchHarmonics, GainLimit: sc.GainLimit,
+		WatchBand: sc.WatchBand, BackgroundPct: sc.BackgroundPct, PlanningPct: sc.PlanningPct,
+	})
+	for _, r := range scr.Rows {
+		if r.Watched {
+			gain = math.Max(gain, r.BandGain)
+		}
+	}
+	for _, p := range posPeaks {
+		if p.F > 1.05*st.Frequency {
+			first = p.F
+			break
+		}
+	}
+	return gain, first
+}
+
+// remedyControlledShots returns the shots of controlled closing: each pole aims at the
+// instant its source EMF equals the line voltage at closing (the trapped charge; 0 on
+// an uncharged line, the EMF's voltage zero), so the voltage across its contacts is
+// zero, the first such instant after phase a's; each pole's instant is scattered
+// normally with sigma (s), truncated at 3 sigma, from a generator seeded with seed.
+// With |trapped| > 1 pu a pole aims at the EMF crest of the same sign.
+//
+// References:
+//   - CIGRE WG 13.07, Controlled switching of HVAC circuit breakers: guide for
+//     application, Electra 183 (1999) and 185 (1999) (closing near voltage zero of
+//     uncharged lines); from memory.
+func remedyControlledShots(shots int, seed uint64, sigma, omega float64, trapped [3]float64) []waves.ShotSpec {
+	aim := func(v float64) [2]float64 {
+		v = math.Max(-1, math.Min(1, v))
+		a := math.Asin(v)
+		return [2]float64{a, math.Pi - a}
+	}
+	thA := aim(trapped[0])[0]
+	var t [3]float64
+	for k := 1; k < 3; k++ {
+		best := math.Inf(1)
+		for _, phi := range aim(trapped[k]) {
+			x := math.Mod(phi-thA+float64(k)*2*math.Pi/3, 2*math.Pi)
+			if x < 0 {
+				x += 2 * math.Pi
+			}
+			best = math.Min(best, x/omega)
+		}
+		t[k] = best
+	}
+	r := rand.New(rand.NewPCG(seed, 0x5eed_c0c0_a1b2_c3d4))
+	out := make([]waves.ShotSpec, shots)
+	for i := range out {
+		out[i].CloseDeg = thA * 180 / math.Pi
+		for k := 0; k < 3; k++ {
+			z := 0.0
+			if sigma > 0 {
+				z = r.NormFloat64()
+				for math.Abs(z) > 3 {
+					z = r.NormFloat64()
+				}
+			}
+			out[i].Offset[k] = t[k] + z*sigma
+		}
+	}
+	return out
+}
+
+// remedySwitching runs the statistical switching study of the modified study cst (as
+// computeSwitching does, with the study's seed and settings) and returns u2 (pu of
+// Us·√2/√3) and the margin to siwl (%, when set). With controlled closing the shots
+// follow remedyControlledShots instead of random closing.
+func (rs *remedySearch) remedySwitching(cst *study.Study, controlled bool) (u2, margin float64, err error) {
+	set := cst.Switching
+	opt := cst.SwitchingOptions()
+	x0 := cst.Source.X0OverX1
+	if x0 == 0 {
+		x0 = 1
+	}
+	net := waves.ThreePhase{
+		Omega: rs.omega, EMFPeak: cst.Voltage * math.Sqrt2 / math.Sqrt(3), Line: rs.modal,
+		SourceR: cst.Network.Source.R, SourceL: cst.Network.Source.L, X0OverX1: x0,
+		Shunts: cst.Network.Shunts, NeutralL: opt.NeutralReactorL,
+	}
+	for _, a := range opt.Arresters {
+		at := 1
+		if a.At == "sending" {
+			at = 0
+		}
+		net.Arresters = append(net.Arresters, waves.Arrester{Name: a.Name, At: at, VI: a.VI})
+	}
+	ws := waves.SwitchingSettings{
+		Shots: set.Shots, Seed: uint64(set.Seed), HasCloseDeg: set.HasCloseDeg, CloseDeg: set.CloseDeg,
+		PoleSigma: set.PoleSigma, TrappedPU: set.TrappedPU, Preinsertion: set.Preinsertion,
+		InsertTime: set.InsertTime, Duration: set.Duration, TimeStep: set.TimeStep,
+	}
+	if ws.Preinsertion == 0 {
+		ws.InsertTime = 0
+	}
+	sim, err := waves.NewSwitchingSimulator(net, ws)
+	if err != nil {
+		return 0, 0, usagef("%s: switching: %v", cst.File, err)
+	}
+	specs := waves.DrawShots(ws)
+	if controlled {
+		specs = remedyControlledShots(set.Shots, uint64(set.Seed), rs.spec.Levers.ControlledSigma, rs.omega, set.TrappedPU)
+	}
+	shots := sim.Run(specs, 0, nil)
+	rs.runs++
+	peaks := make([][3]float64, len(shots))
+	for i, sh := range shots {
+		for k := 0; k < 3; k++ {
+			if math.IsNaN(sh.Peak[k]) || math.IsInf(sh.Peak[k], 0) {
+				return 0, 0, fmt.Errorf("remedy: switching: the simulation diverged (non-finite voltage); try a smaller switching.time_step_us")
+			}
+		}
+		peaks[i] = sh.Peak
+	}
+	stats, err := waves.Statistics(peaks, cst.Voltage/cst.Us)
+	if err != nil {
+		return 0, 0, err
+	}
+	if set.SIWL > 0 {
+		margin = waves.MarginPct(set.SIWL, set.Ks, set.Kcd, stats.U2*cst.Us*math.Sqrt2/math.Sqrt(3))
+	}
+	return stats.U2, margin, nil
+}
+
+// evalFreq evaluates a candidate on the frequency-domain measures.
+func (rs *remedySearch) evalFreq(c remedyCandidate) (remedyFigs, error) {
+	cst := remedyStudy(rs.st, c)
+	var f remedyFigs
+	var err error
+	if f.OpenEnd, err = remedyOpenEnd(cst); err != nil {
+		return f, fmt.Errorf("%s: line: %v", rs.st.File, err)
+	}
+	if rs.spec.Targets.HasGainWatched {
+		f.Gain, f.FirstResonanceHz = remedyWatchedGain(cst, rs.freqs)
+	}
+	rs.evals++
+	return f, nil
+}
+
+// evalAll evaluates a candidate on every target's measure.
+func (rs *remedySearch) evalAll(c remedyCandidate) (remedyEval, error) {
+	f, err := rs.evalFreq(c)
+	if err != nil {
+		return remedyEval{}, err
+	}
+	if rs.spec.Targets.Switching() {
+		f.U2, f.Margin, err = rs.remedySwitching(remedyStudy(rs.st, c), c.Controlled)
+		if err != nil {
+			return remedyEval{}, err
+		}
+		f.HasSw, f.HasMargin = true, rs.st.Switching.SIWL > 0
+	}
+	return rs.judge(c, f), nil
+}
+
+// judge sets how far the figures are from the targets: each target's relative
+// violation (value/limit - 1 for the upper limits; (limit - margin)/100 for the
+// margin), the largest of them, and the target it belongs to.
+func (rs *remedySearch) judge(c remedyCandidate, f remedyFigs) remedyEval {
+	e := remedyEval{cand: c, figs: f}
+	tg := rs.spec.Targets
+	check := func(key string, x float64) {
+		if math.IsInf(x, 1) {
+			x = 1e12
+		}
+		if x > remedyTol && x > e.violation {
+			e.violation, e.binding = x, key
+		}
+	}
+	if tg.HasOpenEnd {
+		check("max_open_end_pu", f.OpenEnd/tg.OpenEndPU-1)
+	}
+	if tg.HasGainWatched {
+		check("max_gain_watched", f.Gain/tg.GainWatched-1)
+	}
+	if tg.HasU2 && f.HasSw {
+		check("max_u2_pu", f.U2/tg.U2PU-1)
+	}
+	if tg.HasMargin && f.HasMargin {
+		check("min_margin_pct", (tg.MarginPct-f.Margin)/100)
+	}
+	return e
+}
+
+// reactorLevels returns "none" and the grid of ratings (var) of a reactor lever.
+func reactorLevels(r *study.Range) []float64 {
+	if r == nil {
+		return []float64{0}
+	}
+	out := []float64{0}
+	for i := 0; i <= remedyGridSteps; i++ {
+		q := r.Min + (r.Max-r.Min)*float64(i)/remedyGridSteps
+		if q > 0 && q > out[len(out)-1] {
+			out = append(out, q)
+		}
+	}
+	return out
+}
+
+// reactorStage returns the reactor pairs meeting the frequency targets, cheapest
+// first (at most remedyKeepReactors), and the closest pair when none does.
+func (rs *remedySearch) reactorStage() (keep []remedyEval, closest remedyEval, err error) {
+	lv := rs.spec.Levers
+	ls, lr := reactorLevels(lv.ReactorSending), reactorLevels(lv.ReactorReceiving)
+	total := len(ls) * len(lr)
+	grid := make([][]remedyEval, len(ls))
+	closest.violation = math.Inf(1)
+	var feasible []remedyEval
+	for i, s := range ls {
+		grid[i] = make([]remedyEval, len(lr))
+		for j, r := range lr {
+			c := remedyCandidate{ReactorSending: s, ReactorReceiving: r}
+			f, err := rs.evalFreq(c)
+			if err != nil {
+				return nil, closest, err
+			}
+			e := rs.judge(c, f)
+			grid[i][j] = e
+			if e.violation < closest.violation || (e.violation == closest.violation && c.cost() < closest.cand.cost()) {
+				closest = e
+			}
+			if rs.progress != nil {
+				rs.progress(i*len(lr)+j+1, total)
+			}
+		}
+	}
+	tg := rs.spec.Targets
+	if !tg.HasOpenEnd && !tg.HasGainWatched {
+		// No frequency target: every pair is a candidate for the switching stage.
+		for i := range ls {
+			feasible = append(feasible, grid[i]...)
+		}
+		sort.SliceStable(feasible, func(a, b int) bool { return feasible[a].cand.cost() < feasible[b].cand.cost() })
+		return feasible, closest, nil
+	}
+	for i := range ls {
+		for j := range lr {
+			e := grid[i][j]
+			// Only the grid's frontier: a pair whose lower neighbours fail the targets
+			// (a pair above a feasible one costs more).
+			if e.violation > 0 || (i > 0 && grid[i-1][j].violation == 0) || (j > 0 && grid[i][j-1].violation == 0) {
+				continue
+			}
+			// Lower each added rating while the targets stay met.
+			if i > 0 {
+				if e, err = rs.lower(e, lv.ReactorSending, ls[i-1], true); err != nil {
+					return nil, closest, err
+				}
+			}
+			if j > 0 {
+				if e, err = rs.lower(e, lv.ReactorReceiving, lr[j-1], false); err != nil {
+					return nil, closest, err
+				}
+			}
+			feasible = append(feasible, e)
+		}
+	}
+	sort.SliceStable(feasible, func(a, b int) bool { return feasible[a].cand.cost() < feasible[b].cand.cost() })
+	for _, e := range feasible {
+		dup := false
+		for _, k := range keep {
+			if math.Abs(k.cand.ReactorSending-e.cand.ReactorSending) < 1e3 && math.Abs(k.cand.ReactorReceiving-e.cand.ReactorReceiving) < 1e3 {
+				dup = true
+			}
+		}
+		if !dup {
+			keep = append(keep, e)
+		}
+		if len(keep) == remedyKeepReactors {
+			break
+		}
+	}
+	return keep, closest, nil
+}
+
+// lower lowers the sending (or receiving) rating of the feasible e towards the grid
+// level below, prev (0 = none), by bisection, keeping the frequency targets met.
+func (rs *remedySearch) lower(e remedyEval, r *study.Range, prev float64, sending bool) (remedyEval, error) {
+	get := func(c remedyCandidate) float64 {
+		if sending {
+			return c.ReactorSending
+		}
+		return c.ReactorReceiving
+	}
+	with := func(q float64) remedyCandidate {
+		c := e.cand
+		if sending {
+			c.ReactorSending = q
+		} else {
+			c.ReactorReceiving = q
+		}
+		return c
+	}
+	try := func(q float64) (remedyEval, bool, error) {
+		c := with(q)
+		f, err := rs.evalFreq(c)
+		if err != nil {
+			return remedyEval{}, false, err
+		}
+		x := rs.judge(c, f)
+		return x, x.violation == 0, nil
+	}
+	lo, hi := prev, get(e.cand)
+	if prev == 0 {
+		if r.Min > 0 {
+			x, ok, err := try(r.Min)
+			if err != nil {
+				return e, err
+			}
+			if ok {
+				return x, nil
+			}
+			lo = r.Min
+		}
+	}
+	for k := 0; k < remedyBisections; k++ {
+		mid := (lo + hi) / 2
+		x, ok, err := try(mid)
+		if err != nil {
+			return e, err
+		}
+		if ok {
+			hi, e = mid, x
+		} else {
+			lo = mid
+		}
+	}
+	return e, nil
+}
+
+// remedyCombo is one setting of the switching levers.
+type remedyCombo struct {
+	pir        bool
+	controlled bool
+	arresterV  float64
+}
+
+// combos lists the settings of the switching levers the study allows.
+func (rs *remedySearch) combos() []remedyCombo {
+	lv := rs.spec.Levers
+	pirs := []bool{false}
+	if lv.Preinsertion != nil {
+		pirs = append(pirs, true)
+	}
+	ccs := []bool{false}
+	if lv.Controlled {
+		ccs = append(ccs, true)
+	}
+	arrs := []float64{0}
+	for i := len(lv.ArrestersV) - 1; i >= 0; i-- { // highest rating first
+		arrs = append(arrs, lv.ArrestersV[i])
+	}
+	var out []remedyCombo
+	for _, p := range pirs {
+		for _, c := range ccs {
+			for _, a := range arrs {
+				out = append(out, remedyCombo{pir: p, controlled: c, arresterV: a})
+			}
+		}
+	}
+	return out
+}
+
+// bestResistor returns the pre-insertion resistor (ohm) within the lever's range that
+// minimises u2 for the reactor pair of base (random closing, no added arresters): a
+// grid of remedyPIRGrid values, then golden-section search between the neighbours of
+// the grid's best.
+//
+// References:
+//   - Kiefer, J., Sequential minimax search for a maximum, Proc. AMS 4 (1953) 502-506.
+func (rs *remedySearch) bestResistor(base remedyCandidate) (float64, error) {
+	r := rs.spec.Levers.Preinsertion
+	key := [2]float64{base.ReactorSending, base.ReactorReceiving}
+	u2At := func(ohm float64) (float64, error) {
+		c := base
+		c.Preinsertion, c.Controlled, c.ArresterV = ohm, false, 0
+		u2, _, err := rs.remedySwitching(remedyStudy(rs.st, c), false)
+		if err == nil {
+			rs.pirSamples[key] = append(rs.pirSamples[key], remedyPIRSample{Ohm: ohm, U2: u2})
+		}
+		return u2, err
+	}
+	lo := math.Max(r.Min, r.Max*1e-3)
+	xs := make([]float64, remedyPIRGrid)
+	ys := make([]float64, remedyPIRGrid)
+	best := 0
+	for i := range xs {
+		xs[i] = lo + (r.Max-lo)*float64(i)/(remedyPIRGrid-1)
+		u, err := u2At(xs[i])
+		if err != nil {
+			return 0, err
+		}
+		ys[i] = u
+		if u < ys[best] {
+			best = i
+		}
+	}
+	a, b := xs[max(best-1, 0)], xs[min(best+1, remedyPIRGrid-1)]
+	bx, by := xs[best], ys[best]
+	g := (math.Sqrt(5) - 1) / 2
+	x1, x2 := b-g*(b-a), a+g*(b-a)
+	f1, err := u2At(x1)
+	if err != nil {
+		return 0, err
+	}
+	f2, err := u2At(x2)
+	if err != nil {
+		return 0, err
+	}
+	for k := 0; k < remedyGolden; k++ {
+		if f1 < by {
+			bx, by = x1, f1
+		}
+		if f2 < by {
+			bx, by = x2, f2
+		}
+		if f1 < f2 {
+			b, x2, f2 = x2, x1, f1
+			x1 = b - g*(b-a)
+			if f1, err = u2At(x1); err != nil {
+				return 0, err
+			}
+		} else {
+			a, x1, f1 = x1, x2, f2
+			x2 = a + g*(b-a)
+			if f2, err = u2At(x2); err != nil {
+				return 0, err
+			}
+		}
+	}
+	if f1 < by {
+		bx = x1
+	}
+	if f2 < by && f2 < f1 {
+		bx = x2
+	}
+	return bx, nil
+}
+
+// switchingStage combines the reactor pairs with the switching levers in increasing
+// order of cost and returns the first candidate meeting every target, with ok false
+// and the closest candidate evaluated when none does (or the run cap is reached).
+func (rs *remedySearch) switchingStage(reactors []remedyEval) (best remedyEval, ok bool, capped bool, err error) {
+	type trial struct {
+		r     remedyEval
+		combo remedyCombo
+		cost  float64
+	}
+	var trials []trial
+	for _, r := range reactors {
+		for _, cb := range rs.combos() {
+			c := r.cand
+			c.Controlled, c.ArresterV = cb.controlled, cb.arresterV
+			if cb.pir {
+				c.Preinsertion = 1 // placeholder for the cost; the value is found below
+			}
+			trials = append(trials, trial{r: r, combo: cb, cost: c.cost()})
+		}
+	}
+	sort.SliceStable(trials, func(a, b int) bool { return trials[a].cost < trials[b].cost })
+	resistor := map[[2]float64]float64{}
+	best.violation = math.Inf(1)
+	for i, t := range trials {
+		if rs.runs >= remedyMaxSwitching {
+			return best, false, true, nil
+		}
+		c := t.r.cand
+		c.Controlled, c.ArresterV = t.combo.controlled, t.combo.arresterV
+		if t.combo.pir {
+			key := [2]float64{c.ReactorSending, c.ReactorReceiving}
+			ohm, done := resistor[key]
+			if !done {
+				if ohm, err = rs.bestResistor(c); err != nil {
+					return best, false, false, err
+				}
+				resistor[key] = ohm
+			}
+			c.Preinsertion = ohm
+		}
+		e, err := rs.evalAll(c)
+		if err != nil {
+			return best, false, false, err
+		}
+		if rs.progress != nil {
+			rs.progress(i+1, len(trials))
+		}
+		if e.violation == 0 {
+			return e, true, false, nil
+		}
+		if e.violation < best.violation {
+			best = e
+		}
+	}
+	return best, false, false, nil
+}
