@@ -308,6 +308,14 @@ func (p *profiler) extreme(sign float64) (x, vabs float64) {
 		xB := p.start[k] + float64(iBest)*h
 		if iBest > 0 && iBest < n {
 			xB, vB = goldenMax(f, xB-h, xB+h)
+		} else {
+			// At a section end the extreme may lie just inside the section (a
+			// junction of sections on a flat profile): search the end interval too.
+			lo := math.Max(xB-h, p.start[k])
+			x2, v2 := goldenMax(f, lo, lo+h)
+			if v2 > vB+extremeTie*math.Abs(vB) {
+				xB, vB = x2, v2
+			}
 		}
 		if k == 0 || vB > bestV+extremeTie*math.Abs(bestV) {
 			bestX, bestV = xB, vB

@@ -60,7 +60,7 @@ func Bergeron(n freqscan.Network, e Energisation, opt BergeronOptions) (*Wavefor
 	var pieces []piece
 	half := n.Line.Length() / 2
 	pos := 0.0
-	midPiece := -1 // index of the first piece after mid-line
+	midPiece := -1         // index of the first piece after mid-line
 	var junctionNode []int // the node of each junction of sections
 	for i, l := range n.Line {
 		zc, v := l.Lossless(e.Omega)
@@ -406,7 +406,9 @@ func Bergeron(n freqscan.Network, e Energisation, opt BergeronOptions) (*Wavefor
 		note += fmt.Sprintf(" (histories interpolated linearly, up to %.2f of a step: each wavefront is smoothed over one step, %.4g µs, at each transit; the timing of every front is exact)", worstFrac, dt*1e6)
 	}
 	wf.Notes = append(wf.Notes, note)
-	if opt.LumpedResistance {
+	if opt.LumpedResistance && len(n.Line) > 1 {
+		wf.Notes = append(wf.Notes, "line resistance lumped half at each end of each line piece (frequency-independent, at the system frequency)")
+	} else if opt.LumpedResistance {
 		wf.Notes = append(wf.Notes, "line resistance lumped R/4, R/2, R/4 at ends and middle (frequency-independent, at the system frequency)")
 	} else {
 		wf.Notes = append(wf.Notes, "line resistance neglected (lossless line)")

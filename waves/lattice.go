@@ -230,7 +230,13 @@ func Lattice(n freqscan.Network, e Energisation, opt LatticeOptions) (*Waveform,
 
 	dt := e.TimeStep
 	if dt == 0 {
-		dt = defaultStep(minOf(d.Travel), e.Duration)
+		// as Laplace: a hundredth of the whole travel time, and at least 20 steps
+		// over the shortest section
+		var tau float64
+		for _, t := range d.Travel {
+			tau += t
+		}
+		dt = defaultStep(math.Min(tau, 5*minOf(d.Travel)), e.Duration)
 	}
 	wf := &Waveform{Method: "lattice", Step: dt}
 	m := samples(e.Duration, dt)

@@ -329,6 +329,9 @@ func runMethod(st *study.Study, method string, e waves.Energisation) (*waves.Wav
 	case "bergeron":
 		w, err = waves.Bergeron(net, e, waves.BergeronOptions{LumpedResistance: lossy})
 		limits = "Bergeron: lossless line pieces with constants at the system frequency (no frequency dependence), resistance lumped at ends and middle; trapezoidal lumped elements"
+		if len(st.Network.Line) > 1 {
+			limits = "Bergeron: lossless line pieces (each section its own surge impedance and travel time, split at mid-line) with constants at the system frequency (no frequency dependence), resistance lumped at the ends of each piece; trapezoidal lumped elements"
+		}
 	case "laplace":
 		w, err = waves.Laplace(net, e, waves.LaplaceOptions{})
 		limits = "numerical Laplace transform: linear network, every element at its frequency-dependent value; the window smooths wavefronts over a few time steps"

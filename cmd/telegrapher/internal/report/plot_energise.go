@@ -5,6 +5,7 @@ import (
 	"image/color"
 	"math"
 	"strconv"
+	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -198,22 +199,88 @@ type LatticePlotData struct {
 	Sine bool
 }
 
-// minLabelledSection is the smallest section, as a fraction of the line, whose
-// wavefronts get amplitude labels (shorter ones cannot hold them legibly).
-const minLabelledSection = 0.08
+// minShownSection is the smallest width, as a fraction of the drawing, a section gets:
+// shorter sections (a cable crossing on an overhead line) are widened so their
+// wavefronts and labels can be read, and the distance axis is then marked at the ends
+// and junctions only.
+const minShownSection = 0.2
+
+// latticeScale maps a distance along the line (m) to the drawing's abscissa (km):
+// to scale when every section is at least minShownSection of the line, otherwise
+// each section stretched or shrunk linearly to its shown width.
+type latticeScale struct {
+	at     []float64 // m, the ends and junctions
+	shown  []float64 // km on the drawing, the same points
+	scaled bool      // true: not to scale
+}
+
+func newLatticeScale(g *waves.LatticeDiagram) latticeScale {
+	sc := latticeScale{at: g.Junctions, shown: make([]float64, len(g.Junctions))}
+	lengthKm := g.Length / 1e3
+	var sum float64
+	widths := make([]float64, len(g.Junctions)-1)
+	for i := range widths {
+		frac := (g.Junctions[i+1] - g.Junctions[i]) / g.Length
+		if frac < minShownSection {
+			sc.scaled = true
+			frac = minShownSection
+		}
+		widths[i] = frac
+		sum += frac
+	}
+	for i := range widths {
+		if sc.scaled {
+			sc.shown[i+1] = sc.shown[i] + widths[i]/sum*lengthKm
+		} else {
+			sc.shown[i+1] = g.Junctions[i+1] / 1e3
+		}
+	}
+	return sc
+}
+
+// x returns the abscissa of the distance x (m) in section sec.
+func (sc latticeScale) x(sec int, x float64) float64 {
+	if !sc.scaled {
+		return x / 1e3
+	}
+	a, b := sc.at[sec], sc.at[sec+1]
+	return sc.shown[sec] + (x-a)/(b-a)*(sc.shown[sec+1]-sc.shown[sec])
+}
+
+// junctionTicks marks the ends and junctions with their true distances.
+type junctionTicks struct{ sc latticeScale }
+
+func (t junctionTicks) Ticks(lo, hi float64) []plot.Tick {
+	var ticks []plot.Tick
+	for i, x := range t.sc.shown {
+		ticks = append(ticks, plot.Tick{Value: x, Label: strconv.FormatFloat(t.sc.at[i]/1e3, 'g', 5, 64)})
+	}
+	return ticks
+}
 
 // LatticePlot draws a Bewley lattice diagram: distance along the line (km) across,
 // time (ms) downwards; each wavefront a line from where and when it leaves to where
 // and when it arrives, coloured by the sign of its amplitude and labelled with it;
-// the source, the open end and each junction of sections as vertical lines.
+// the source, the open end and each junction of sections as vertical lines, each
+// junction headed by its transmission and reflection coefficients for waves arriving
+// from either side,
+//
+//	transmitted 2·Z2/(Z1 + Z2),  reflected (Z2 − Z1)/(Z1 + Z2)
+//
+// (Bewley 1951, ch. 3). Sections shorter than a fifth of the line are widened so
+// their wavefronts can be read; the distance axis then says so and is marked at the
+// ends and junctions with their true distances.
 func LatticePlot(d LatticePlotData) (*plot.Plot, error) {
 	g := d.Diagram
-	if g == nil || len(g.Wavefronts) == 0 {
+	if g == nil || len(g.Wavefronts) == 0 || len(g.Junctions) != len(g.Surge)+1 {
 		return nil, fmt.Errorf("lattice plot: no wavefronts")
 	}
 	maxF := d.MaxFronts
 	if maxF <= 0 {
 		maxF = 40
+		if len(g.Surge) > 1 {
+			maxF = 60
+		}
 	}
 	fronts := g.Wavefronts
 	if len(fronts) > maxF {
@@ -223,52 +290,72 @@ func LatticePlot(d LatticePlotData) (*plot.Plot, error) {
 	for _, f := range fronts {
 		tEnd = math.Max(tEnd, f.T1*1e3)
 	}
+	sc := newLatticeScale(g)
+	ns := len(g.Surge)
 	p := plot.New()
 	p.Title.Text = d.Title
 	p.X.Label.Text = "distance from the sending end (km)"
+	if sc.scaled {
+		p.X.Label.Text = fmt.Sprintf("distance from the sending end (km, marked at the ends and junctions; sections under %.0f %% of the line widened, not to scale)", minShownSection*100)
+		p.X.Tick.Marker = junctionTicks{sc}
+	} else {
+		p.X.Tick.Marker = enTicks{n: 10}
+	}
 	p.Y.Label.Text = "time after closing (ms), downwards"
 	p.Y.Scale = plot.InvertedScale{Normalizer: plot.LinearScale{}}
 	lengthKm := g.Length / 1e3
+	top := 0.04
+	if ns > 1 {
+		top = 0.16 // room for the junction coefficients
+	}
 	p.X.Min, p.X.Max = -0.12*lengthKm, 1.12*lengthKm
-	p.Y.Min, p.Y.Max = -0.04*tEnd, tEnd*1.09
+	p.Y.Min, p.Y.Max = -top*tEnd, tEnd*1.09
 	p.Y.Tick.Marker = enTicks{n: 10}
-	p.X.Tick.Marker = enTicks{n: 10}
 	// Ends and junctions.
-	for i, x := range g.Junctions {
-		l, err := plotter.NewLine(plotter.XYs{{X: x / 1e3, Y: 0}, {X: x / 1e3, Y: tEnd}})
+	for i, x := range sc.shown {
+		l, err := plotter.NewLine(plotter.XYs{{X: x, Y: 0}, {X: x, Y: tEnd}})
 		if err != nil {
 			return nil, err
 		}
 		l.Color = color.Gray{Y: 0x30}
 		l.Width = vg.Points(1.5)
-		if i > 0 && i < len(g.Junctions)-1 {
+		if i > 0 && i < len(sc.shown)-1 {
 			l.Width = vg.Points(0.8)
 			l.Dashes = []vg.Length{vg.Points(3), vg.Points(2)}
 		}
 		p.Add(l)
 	}
-	// The ends above the diagram, each section's name and surge impedance below it.
-	heads, err := plotter.NewLabels(plotter.XYLabels{
-		XYs:    []plotter.XY{{X: 0, Y: p.Y.Min}, {X: lengthKm, Y: p.Y.Min}},
-		Labels: []string{"source", "open end"},
-	})
+	// The ends and junctions above the diagram, each section's name and surge
+	// impedance below it.
+	headXY := []plotter.XY{{X: 0, Y: p.Y.Min}, {X: sc.shown[ns], Y: p.Y.Min}}
+	headTxt := []string{"source", "open end"}
+	for j := 1; j < ns; j++ {
+		z1, z2 := g.Surge[j-1], g.Surge[j]
+		headXY = append(headXY, plotter.XY{X: sc.shown[j], Y: p.Y.Min})
+		headTxt = append(headTxt, fmt.Sprintf("junction %d, %.4g km\nwave from the left:\nt %.3f  r %+.3f\nwave from the right:\nt %.3f  r %+.3f",
+			j, g.Junctions[j]/1e3, 2*z2/(z1+z2), (z2-z1)/(z1+z2), 2*z1/(z1+z2), (z1-z2)/(z1+z2)))
+	}
+	heads, err := plotter.NewLabels(plotter.XYLabels{XYs: headXY, Labels: headTxt})
 	if err != nil {
 		return nil, err
 	}
 	for i := range heads.TextStyle {
 		heads.TextStyle[i].XAlign = draw.XCenter
 		heads.TextStyle[i].YAlign = draw.YBottom
+		if i >= 2 {
+			heads.TextStyle[i].Font.Size = vg.Points(8)
+		}
 	}
 	p.Add(heads)
 	var names []string
 	var where []plotter.XY
 	for i := range g.Surge {
-		name := fmt.Sprintf("Zc %.0f Ω", g.Surge[i])
+		name := fmt.Sprintf("Zc %.0f Ω, %.4g km", g.Surge[i], (g.Junctions[i+1]-g.Junctions[i])/1e3)
 		if i < len(d.Sections) && d.Sections[i] != "" {
 			name = d.Sections[i] + "\n" + name
 		}
 		names = append(names, name)
-		where = append(where, plotter.XY{X: (g.Junctions[i] + g.Junctions[i+1]) / 2e3, Y: p.Y.Max})
+		where = append(where, plotter.XY{X: (sc.shown[i] + sc.shown[i+1]) / 2, Y: p.Y.Max})
 	}
 	feet, err := plotter.NewLabels(plotter.XYLabels{XYs: where, Labels: names})
 	if err != nil {
@@ -282,10 +369,11 @@ func LatticePlot(d LatticePlotData) (*plot.Plot, error) {
 	p.Add(feet)
 	// Wavefronts and their amplitudes.
 	var lxy []plotter.XY
-	unlabelled := false
 	var ltxt []string
+	hidden := 0 // labels left out where they would overlap
 	for _, f := range fronts {
-		l, err := plotter.NewLine(plotter.XYs{{X: f.X0 / 1e3, Y: f.T0 * 1e3}, {X: f.X1 / 1e3, Y: f.T1 * 1e3}})
+		x0, x1 := sc.x(f.Section, f.X0), sc.x(f.Section, f.X1)
+		l, err := plotter.NewLine(plotter.XYs{{X: x0, Y: f.T0 * 1e3}, {X: x1, Y: f.T1 * 1e3}})
 		if err != nil {
 			return nil, err
 		}
@@ -295,12 +383,21 @@ func LatticePlot(d LatticePlotData) (*plot.Plot, error) {
 			l.Color = enRed
 		}
 		p.Add(l)
-		if g.Junctions[f.Section+1]-g.Junctions[f.Section] < minLabelledSection*g.Length {
-			unlabelled = true
-			continue // too short a section to hold readable labels
+		// label a third of the way along, so labels of crossing fronts do not
+		// collide, and not where an earlier label sits already
+		at := plotter.XY{X: (2*x0 + x1) / 3, Y: (2*f.T0 + f.T1) / 3 * 1e3}
+		free := true
+		for _, q := range lxy {
+			if math.Abs(q.X-at.X) < 0.07*lengthKm && math.Abs(q.Y-at.Y) < 0.028*tEnd {
+				free = false
+				break
+			}
 		}
-		// label a third of the way along, so labels of crossing fronts do not collide
-		lxy = append(lxy, plotter.XY{X: (2*f.X0 + f.X1) / 3e3, Y: (2*f.T0 + f.T1) / 3 * 1e3})
+		if !free {
+			hidden++
+			continue
+		}
+		lxy = append(lxy, at)
 		ltxt = append(ltxt, fmt.Sprintf("%+.3f", f.Amplitude))
 	}
 	labels, err := plotter.NewLabels(plotter.XYLabels{XYs: lxy, Labels: ltxt})
@@ -308,7 +405,7 @@ func LatticePlot(d LatticePlotData) (*plot.Plot, error) {
 		return nil, err
 	}
 	for i := range labels.TextStyle {
-		labels.TextStyle[i].Font.Size = vg.Points(7.5)
+		labels.TextStyle[i].Font.Size = vg.Points(7)
 		labels.TextStyle[i].XAlign = draw.XCenter
 	}
 	labels.Offset = vg.Point{Y: vg.Points(2)}
@@ -319,11 +416,18 @@ func LatticePlot(d LatticePlotData) (*plot.Plot, error) {
 		unit = "wavefront amplitude per pu of (EMF − trapped voltage) at its launch"
 	}
 	p.Title.Text += "\n" + unit + " (blue > 0, red < 0)"
-	if len(g.Wavefronts) > len(fronts) {
-		p.Title.Text += fmt.Sprintf("; first %d of %d wavefronts", len(fronts), len(g.Wavefronts))
+	var more []string
+	if ns > 1 {
+		more = append(more, "t, r: transmission and reflection coefficients")
 	}
-	if unlabelled {
-		p.Title.Text += fmt.Sprintf("; sections under %.0f %% of the line unlabelled", minLabelledSection*100)
+	if len(g.Wavefronts) > len(fronts) {
+		more = append(more, fmt.Sprintf("first %d of %d wavefronts", len(fronts), len(g.Wavefronts)))
+	}
+	if hidden > 0 {
+		more = append(more, fmt.Sprintf("%d crowded labels left out", hidden))
+	}
+	if len(more) > 0 {
+		p.Title.Text += "\n" + strings.Join(more, "; ")
 	}
 	return p, nil
 }

@@ -1,6 +1,7 @@
 package report
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -71,6 +72,16 @@ func TestEnergisePlots(t *testing.T) {
 				for _, want := range []string{"open end", "source", "+0.738"} {
 					if !sections && !strings.Contains(string(b), want) {
 						t.Errorf("lattice plot lacks %q", want)
+					}
+				}
+				// The junction's coefficients for a wave from the overhead side,
+				// 2·Z2/(Z1+Z2) and (Z2−Z1)/(Z1+Z2) (Bewley 1933, ch. 3; textbook),
+				// from the fixture's constants; the 20 km cable is widened.
+				z1, z2 := math.Sqrt(0.95e-6/12e-12), math.Sqrt(0.4e-6/210e-12)
+				coef := fmt.Sprintf("t %.3f  r %+.3f", 2*z2/(z1+z2), (z2-z1)/(z1+z2))
+				for _, want := range []string{"junction 1, 120 km", coef, "not to scale"} {
+					if sections && !strings.Contains(string(b), want) {
+						t.Errorf("sectioned lattice plot lacks %q", want)
 					}
 				}
 			}
