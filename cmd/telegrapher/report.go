@@ -538,6 +538,22 @@ var reportParts = []func(*reportRun) (report.Section, error){
 	(*reportRun).switchingSection,
 }
 
+// remedySection is the remedies part, present only when the study has [targets].
+func (rr *reportRun) remedySection() (report.Section, bool, error) {
+	sec, figs, ok, err := remedyReportPart(rr.st)
+	if !ok || err != nil {
+		return sec, ok, err
+	}
+	for _, f := range figs {
+		fg, err := rr.figure(f.Name, f.Title, f.Alt, f.Plot)
+		if err != nil {
+			return sec, true, err
+		}
+		sec.Figures = append(sec.Figures, fg)
+	}
+	return sec, true, nil
+}
+
 // build runs the parts in order and returns the document.
 func (rr *reportRun) build() (*report.Document, error) {
 	doc := &report.Document{
@@ -552,6 +568,11 @@ func (rr *reportRun) build() (*report.Document, error) {
 		if err != nil {
 			return nil, err
 		}
+		doc.Sections = append(doc.Sections, sec)
+	}
+	if sec, ok, err := rr.remedySection(); err != nil {
+		return nil, err
+	} else if ok {
 		doc.Sections = append(doc.Sections, sec)
 	}
 	if where := report.NonFinite(doc); where != "" {

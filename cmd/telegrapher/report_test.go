@@ -474,3 +474,34 @@ func TestDemoCable(t *testing.T) {
 		t.Error("the cable demo's report has no table of sections")
 	}
 }
+
+// A study with [targets] gets a remedies section with its trade-off plots; one without
+// gets none.
+func TestReportRemediesSection(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		study string
+		want  bool
+	}{
+		{filepath.Join("..", "..", "testdata", "remedy_fifth.toml"), true},
+		{filepath.Join("..", "..", "testdata", "scan_study.toml"), false},
+	} {
+		out := filepath.Join(t.TempDir(), "out")
+		var stdout, stderr bytes.Buffer
+		if code := run([]string{"report", tc.study, "--out", out}, &stdout, &stderr); code != 0 {
+			t.Fatalf("%s: exit %d: %s", tc.study, code, stderr.String())
+		}
+		page, err := os.ReadFile(filepath.Join(out, "report.html"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		has := bytes.Contains(page, []byte(`id="remedies"`))
+		if has != tc.want {
+			t.Errorf("%s: remedies section present = %v, want %v", tc.study, has, tc.want)
+		}
+		_, err = os.Stat(filepath.Join(out, "remedy_resonance.svg"))
+		if (err == nil) != tc.want {
+			t.Errorf("%s: remedy_resonance.svg present = %v, want %v", tc.study, err == nil, tc.want)
+		}
+	}
+}
