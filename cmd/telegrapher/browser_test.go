@@ -223,7 +223,7 @@ func TestDemoReportInBrowser(t *testing.T) {
 	t.Parallel()
 	browserPath(t)
 	out := demoFolder(t)
-	sections := []string{"caution", "inputs", "constants", "scan", "energise", "loading", "switching"}
+	sections := []string{"caution", "inputs", "constants", "scan", "energise", "loading", "switching", "remedies"}
 	rep := inspectPage(t, filepath.Join(out, "report.html"), sections, os.Getenv("TELEGRAPHER_SCREENSHOT"))
 	if len(rep.Broken) > 0 {
 		t.Errorf("broken images: %q", rep.Broken)
