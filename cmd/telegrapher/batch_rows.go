@@ -9,6 +9,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 )
 
 // batchColumn is one column of a line inventory.
@@ -199,16 +201,11 @@ func allColumns() string {
 }
 
 func suggestColumn(h string) string {
-	best, bestD := "", 4
-	for _, c := range batchColumns {
-		if d := editDistance(h, c.name); d < bestD {
-			best, bestD = c.name, d
-		}
+	names := make([]string, len(batchColumns))
+	for i, c := range batchColumns {
+		names[i] = c.name
 	}
-	if best == "" {
-		return ""
-	}
-	return fmt.Sprintf(" (did you mean %q?)", best)
+	return study.DidYouMean(h, names)
 }
 
 // studyTOML writes the row as a study file, so every line goes through the same

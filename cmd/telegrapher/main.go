@@ -18,6 +18,8 @@ import (
 	"os"
 	"sort"
 	"strings"
+
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 )
 
 // version is set at build time with -ldflags "-X main.version=..."; "dev" otherwise.
@@ -181,37 +183,12 @@ func commandHelp(c *command, w io.Writer) {
 }
 
 func suggestCommand(s string) string {
-	best, bestD := "", 3
+	names := make([]string, 0, len(commands))
 	for n := range commands {
-		if d := editDistance(s, n); d < bestD {
-			best, bestD = n, d
-		}
+		names = append(names, n)
 	}
-	if best == "" {
-		return ""
-	}
-	return fmt.Sprintf(" (did you mean %q?)", best)
-}
-
-// editDistance is the Levenshtein distance between a and b.
-func editDistance(a, b string) int {
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			cost := 1
-			if a[i-1] == b[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(b)]
+	sort.Strings(names)
+	return study.DidYouMean(s, names)
 }
 
 // Caution is the safety note every report and the help text carry.

@@ -269,7 +269,7 @@ func geoWires(file, path string, raw any, conductors map[string]propagation.Cond
 		}
 		cond, ok := conductors[cname]
 		if !ok {
-			return nil, nil, geoErrorf(file, p+".conductor", "no [conductors.%s] table%s", cname, didYouMean(cname, sortedConductors(conductors)))
+			return nil, nil, geoErrorf(file, p+".conductor", "no [conductors.%s] table%s", cname, DidYouMean(cname, sortedConductors(conductors)))
 		}
 		bundle := 1
 		if bv, ok := t["bundle"]; ok {
@@ -348,7 +348,7 @@ func geoSuggest(k string, known []string) string {
 			return fmt.Sprintf(" (did you mean %q?)", c)
 		}
 	}
-	return didYouMean(k, known)
+	return DidYouMean(k, known)
 }
 
 func geoNames(conductors map[string]propagation.Conductor) string {
@@ -369,7 +369,3 @@ func sortedConductors(m map[string]propagation.Conductor) []string {
 	sort.Strings(ks)
 	return ks
 }
-
-// geoEditDistance is the Levenshtein distance between a and b (kept for the other
-// table parsers of this package that use it).
-func geoEditDistance(a, b string) int { return levenshtein(a, b) }

@@ -354,9 +354,9 @@ func TestDidYouMean(t *testing.T) {
 		{"frequency", "frequency_hz"},
 		{"zzzz", ""},
 	} {
-		got := didYouMean(c.in, append(append([]string{}, sectionKeys...), rootKeys...))
+		got := DidYouMean(c.in, append(append([]string{}, sectionKeys...), rootKeys...))
 		if (c.want == "") != (got == "") || !strings.Contains(got, c.want) {
-			t.Errorf("didYouMean(%q) = %q, want %q", c.in, got, c.want)
+			t.Errorf("DidYouMean(%q) = %q, want %q", c.in, got, c.want)
 		}
 	}
 	if d := levenshtein("kitten", "sitting"); d != 3 {

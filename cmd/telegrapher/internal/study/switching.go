@@ -17,7 +17,6 @@ package study
 import (
 	"fmt"
 	"math"
-	"sort"
 	"strings"
 
 	"github.com/telegrapher/telegrapher/waves"
@@ -114,8 +113,8 @@ func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (Swi
 	}
 	path := func(k string) string { return "switching." + k }
 	for _, k := range sortedKeys(tbl) {
-		if !swContains(switchingKeys, k) {
-			return s, o, nil, swErrorf(file, path(k), "unknown key%s", swDidYouMean(k, switchingKeys))
+		if !contains(switchingKeys, k) {
+			return s, o, nil, swErrorf(file, path(k), "unknown key%s", DidYouMean(k, switchingKeys))
 		}
 	}
 	num := func(k string, def float64) (float64, bool, error) {
@@ -125,7 +124,7 @@ func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (Swi
 		}
 		x, ok := swFloat(v)
 		if !ok {
-			return 0, true, swErrorf(file, path(k), "must be a number, got %v", v)
+			return 0, true, swErrorf(file, path(k), "must be a number, got %s", describe(v))
 		}
 		if math.IsNaN(x) || math.IsInf(x, 0) {
 			return 0, true, swErrorf(file, path(k), "must be finite, got %v", v)
@@ -152,7 +151,7 @@ func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (Swi
 		}
 		n, isInt := v.(int64)
 		if !isInt {
-			return s, o, nil, swErrorf(file, path(k), "must be an integer, got %v", v)
+			return s, o, nil, swErrorf(file, path(k), "must be an integer, got %s", describe(v))
 		}
 		if k == "shots" {
 			if n < 1 || n > waves.MaxShots {
@@ -283,8 +282,8 @@ func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (Swi
 func parseArrester(file, ap string, a map[string]any) (ArresterSpec, error) {
 	var spec ArresterSpec
 	for _, k := range sortedKeys(a) {
-		if !swContains(arresterKeys, k) {
-			return spec, swErrorf(file, ap+"."+k, "unknown key%s", swDidYouMean(k, arresterKeys))
+		if !contains(arresterKeys, k) {
+			return spec, swErrorf(file, ap+"."+k, "unknown key%s", DidYouMean(k, arresterKeys))
 		}
 	}
 	at, _ := a["at"].(string)
@@ -362,28 +361,4 @@ func swTables(v any) ([]map[string]any, error) {
 		return out, nil
 	}
 	return nil, fmt.Errorf("not an array of tables")
-}
-
-func swContains(list []string, s string) bool {
-	for _, x := range list {
-		if x == s {
-			return true
-		}
-	}
-	return false
-}
-
-func swDidYouMean(s string, candidates []string) string {
-	best, bestD := "", 3
-	c := append([]string(nil), candidates...)
-	sort.Strings(c)
-	for _, k := range c {
-		if d := geoEditDistance(s, k); d < bestD {
-			best, bestD = k, d
-		}
-	}
-	if best == "" {
-		return ""
-	}
-	return fmt.Sprintf(" (did you mean %q?)", best)
 }

@@ -300,7 +300,7 @@ func (t *Table) Known(known ...string) {
 	}
 	for _, k := range orderedKeys(t.m) {
 		if !contains(known, k) {
-			t.Errorf(k, "unknown key%s; known here: %s", didYouMean(k, known), strings.Join(known, ", "))
+			t.Errorf(k, "unknown key%s; known here: %s", DidYouMean(k, known), strings.Join(known, ", "))
 			return
 		}
 	}
@@ -343,7 +343,7 @@ func (t *Table) OneOf(key, s string, options ...string) {
 	for i, o := range options {
 		q[i] = strconv.Quote(o)
 	}
-	t.Errorf(key, "must be %s, got %q%s", strings.Join(q, " or "), s, didYouMean(s, options))
+	t.Errorf(key, "must be %s, got %q%s", strings.Join(q, " or "), s, DidYouMean(s, options))
 }
 
 // Exclusive checks that at most one of the keys is given and returns the one given
@@ -438,9 +438,10 @@ func orderedKeys(m map[string]any) []string {
 	return keys
 }
 
-// didYouMean returns ` (did you mean "x"?)` for the closest candidate within an edit
-// distance of about a third of the word (at least 2), or "".
-func didYouMean(s string, candidates []string) string {
+// DidYouMean returns ` (did you mean "x"?)` for the closest candidate within an edit
+// distance of about a third of the word (at least 2), or "". The CLI uses it for
+// command and CSV column names too.
+func DidYouMean(s string, candidates []string) string {
 	best, bestD := "", max(2, len(s)/3)+1
 	for _, c := range candidates {
 		if d := levenshtein(s, c); d < bestD {
