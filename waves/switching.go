@@ -56,6 +56,11 @@ type SwitchingSettings struct {
 	Duration                 float64 // s, from the last pole's last contact
 	TimeStep                 float64 // s; 0 = chosen (min(20 µs, shortest modal travel time / 10))
 	Workers                  int     // goroutines; 0 = GOMAXPROCS
+	// Controlled is controlled (point-on-wave) closing: each pole aims at the instant
+	// the voltage across its contacts is zero (ControlledShots), scattered normally by
+	// ControlledSigma (s, truncated at 3σ), instead of random closing.
+	Controlled      bool
+	ControlledSigma float64
 }
 
 // ShotSpec is one shot's random draw: the phase a EMF angle at the mean closing
@@ -144,6 +149,8 @@ func (s SwitchingSettings) check() error {
 		return bad("duration must be > 0, got %g s", s.Duration)
 	case !(s.TimeStep >= 0) || !fin(s.TimeStep):
 		return bad("time step must be >= 0, got %g s", s.TimeStep)
+	case !(s.ControlledSigma >= 0) || !fin(s.ControlledSigma) || s.ControlledSigma > 0.02:
+		return bad("controlled-closing scatter must be 0..20 ms, got %g s", s.ControlledSigma)
 	}
 	for k, v := range s.TrappedPU {
 		if !fin(v) || math.Abs(v) > 10 {
@@ -990,7 +997,8 @@ func (sim *SwitchingSimulator) Run(specs []ShotSpec, workers int, progress func(
 	return out
 }
 
-// Switching runs a whole statistical switching study: draws the shots (DrawShots),
+// Switching runs a whole statistical switching study: draws the shots (DrawShots, or
+// ControlledShots with s.Controlled),
 // prepares the simulation (NewSwitchingSimulator) and runs them (Run). Results are
 // unprotected overvoltages unless net has arresters.
 func Switching(net ThreePhase, s SwitchingSettings, progress func(done int)) (*SwitchingResult, error) {
@@ -999,6 +1007,9 @@ func Switching(net ThreePhase, s SwitchingSettings, progress func(done int)) (*S
 		return nil, err
 	}
 	specs := DrawShots(s)
+	if s.Controlled {
+		specs = ControlledShots(s, net.Omega)
+	}
 	shots := sim.Run(specs, s.Workers, progress)
 	for _, sh := range shots {
 		for k := 0; k < 3; k++ {

@@ -44,9 +44,9 @@ package main
 // violation) is reported with the target that binds (the one it misses most).
 
 import (
+	"errors"
 	"fmt"
 	"math"
-	"math/rand/v2"
 	"sort"
 
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
@@ -257,102 +257,27 @@ func remedyWatchedGain(st *study.Study, freqs []float64) (gain, first float64) {
 	return gain, first
 }
 
-// remedyControlledShots returns the shots of controlled closing: each pole aims at the
-// instant its source EMF equals the line voltage at closing (the trapped charge; 0 on
-// an uncharged line, the EMF's voltage zero), so the voltage across its contacts is
-// zero, the first such instant after phase a's; each pole's instant is scattered
-// normally with sigma (s), truncated at 3 sigma, from a generator seeded with seed.
-// With |trapped| > 1 pu a pole aims at the EMF crest of the same sign.
-//
-// References:
-//   - CIGRE WG 13.07, Controlled switching of HVAC circuit breakers: guide for
-//     application, Electra 183 (1999) and 185 (1999) (closing near voltage zero of
-//     uncharged lines); from memory.
-func remedyControlledShots(shots int, seed uint64, sigma, omega float64, trapped [3]float64) []waves.ShotSpec {
-	aim := func(v float64) [2]float64 {
-		v = math.Max(-1, math.Min(1, v))
-		a := math.Asin(v)
-		return [2]float64{a, math.Pi - a}
-	}
-	thA := aim(trapped[0])[0]
-	var t [3]float64
-	for k := 1; k < 3; k++ {
-		best := math.Inf(1)
-		for _, phi := range aim(trapped[k]) {
-			x := math.Mod(phi-thA+float64(k)*2*math.Pi/3, 2*math.Pi)
-			if x < 0 {
-				x += 2 * math.Pi
-			}
-			best = math.Min(best, x/omega)
-		}
-		t[k] = best
-	}
-	r := rand.New(rand.NewPCG(seed, 0x5eed_c0c0_a1b2_c3d4))
-	out := make([]waves.ShotSpec, shots)
-	for i := range out {
-		out[i].CloseDeg = thA * 180 / math.Pi
-		for k := 0; k < 3; k++ {
-			z := 0.0
-			if sigma > 0 {
-				z = r.NormFloat64()
-				for math.Abs(z) > 3 {
-					z = r.NormFloat64()
-				}
-			}
-			out[i].Offset[k] = t[k] + z*sigma
-		}
-	}
-	return out
-}
-
 // remedySwitching runs the statistical switching study of the modified study cst (as
 // computeSwitching does, with the study's seed and settings) and returns u2 (pu of
 // Us·√2/√3) and the margin to siwl (%, when set). With controlled closing the shots
-// follow remedyControlledShots instead of random closing.
+// follow waves.ControlledShots instead of random closing.
 func (rs *remedySearch) remedySwitching(cst *study.Study, controlled bool) (u2, margin float64, err error) {
 	set := cst.Switching
-	opt := cst.SwitchingOptions()
-	x0 := cst.Source.X0OverX1
-	if x0 == 0 {
-		x0 = 1
-	}
-	net := waves.ThreePhase{
-		Omega: rs.omega, EMFPeak: cst.Voltage * math.Sqrt2 / math.Sqrt(3), Line: rs.modal,
-		SourceR: cst.Network.Source.R, SourceL: cst.Network.Source.L, X0OverX1: x0,
-		Shunts: cst.Network.Shunts, NeutralL: opt.NeutralReactorL,
-	}
-	for _, a := range opt.Arresters {
-		at := 1
-		if a.At == "sending" {
-			at = 0
-		}
-		net.Arresters = append(net.Arresters, waves.Arrester{Name: a.Name, At: at, VI: a.VI})
-	}
-	ws := waves.SwitchingSettings{
-		Shots: set.Shots, Seed: uint64(set.Seed), HasCloseDeg: set.HasCloseDeg, CloseDeg: set.CloseDeg,
-		PoleSigma: set.PoleSigma, TrappedPU: set.TrappedPU, Preinsertion: set.Preinsertion,
-		InsertTime: set.InsertTime, Duration: set.Duration, TimeStep: set.TimeStep,
-	}
-	if ws.Preinsertion == 0 {
-		ws.InsertTime = 0
-	}
-	sim, err := waves.NewSwitchingSimulator(net, ws)
-	if err != nil {
-		return 0, 0, usagef("%s: switching: %v", cst.File, err)
-	}
-	specs := waves.DrawShots(ws)
+	net, ws, arr := switchingSetup(cst, rs.modal)
+	net.Arresters = arr
 	if controlled {
-		specs = remedyControlledShots(set.Shots, uint64(set.Seed), rs.spec.Levers.ControlledSigma, rs.omega, set.TrappedPU)
+		ws.Controlled, ws.ControlledSigma = true, rs.spec.Levers.ControlledSigma
 	}
-	shots := sim.Run(specs, 0, nil)
-	rs.runs++
-	peaks := make([][3]float64, len(shots))
-	for i, sh := range shots {
-		for k := 0; k < 3; k++ {
-			if math.IsNaN(sh.Peak[k]) || math.IsInf(sh.Peak[k], 0) {
-				return 0, 0, fmt.Errorf("remedy: switching: the simulation diverged (non-finite voltage); try a smaller switching.time_step_us")
-			}
+	r, err := waves.Switching(net, ws, nil)
+	if err != nil {
+		if errors.Is(err, waves.ErrSwitching) {
+			return 0, 0, usagef("%s: switching: %v", cst.File, err)
 		}
+		return 0, 0, err
+	}
+	rs.runs++
+	peaks := make([][3]float64, len(r.Shots))
+	for i, sh := range r.Shots {
 		peaks[i] = sh.Peak
 	}
 	stats, err := waves.Statistics(peaks, cst.Voltage/cst.Us)

@@ -207,6 +207,42 @@ func switchingApplicable(st *study.Study) error {
 	return nil
 }
 
+// switchingSetup builds the three-phase circuit (without its arresters, returned
+// apart) and the simulation settings of st on the modal line ml, as every switching
+// computation uses them.
+func switchingSetup(st *study.Study, ml waves.ModalLine) (waves.ThreePhase, waves.SwitchingSettings, []waves.Arrester) {
+	set := st.Switching
+	opt := st.SwitchingOptions()
+	x0 := st.Source.X0OverX1
+	if x0 == 0 {
+		x0 = 1
+	}
+	omega := 2 * math.Pi * st.Frequency
+	net := waves.ThreePhase{
+		Omega: omega, EMFPeak: st.Voltage * math.Sqrt2 / math.Sqrt(3), Line: ml,
+		SourceR: st.Network.Source.R, SourceL: st.Network.Source.L, X0OverX1: x0,
+		Shunts: st.Network.Shunts, NeutralL: opt.NeutralReactorL,
+	}
+	ws := waves.SwitchingSettings{
+		Shots: set.Shots, Seed: uint64(set.Seed), HasCloseDeg: set.HasCloseDeg, CloseDeg: set.CloseDeg,
+		PoleSigma: set.PoleSigma, TrappedPU: set.TrappedPU, Preinsertion: set.Preinsertion,
+		InsertTime: set.InsertTime, Duration: set.Duration, TimeStep: set.TimeStep,
+		Controlled: opt.Controlled, ControlledSigma: opt.ControlledSigma,
+	}
+	if ws.Preinsertion == 0 {
+		ws.InsertTime = 0
+	}
+	var arr []waves.Arrester
+	for _, a := range opt.Arresters {
+		at := 1
+		if a.At == "sending" {
+			at = 0
+		}
+		arr = append(arr, waves.Arrester{Name: a.Name, At: at, VI: a.VI})
+	}
+	return net, ws, arr
+}
+
 // computeSwitching runs the statistical switching study of st.
 func computeSwitching(st *study.Study) (switchingResult, error) {
 	return computeSwitchingProgress(st, nil)
@@ -227,31 +263,7 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int)) (
 	if err != nil {
 		return res, usagef("%s: line: %v", st.File, err)
 	}
-	x0 := st.Source.X0OverX1
-	if x0 == 0 {
-		x0 = 1
-	}
-	net := waves.ThreePhase{
-		Omega: omega, EMFPeak: st.Voltage * math.Sqrt2 / math.Sqrt(3), Line: ml,
-		SourceR: st.Network.Source.R, SourceL: st.Network.Source.L, X0OverX1: x0,
-		Shunts: st.Network.Shunts, NeutralL: opt.NeutralReactorL,
-	}
-	ws := waves.SwitchingSettings{
-		Shots: set.Shots, Seed: uint64(set.Seed), HasCloseDeg: set.HasCloseDeg, CloseDeg: set.CloseDeg,
-		PoleSigma: set.PoleSigma, TrappedPU: set.TrappedPU, Preinsertion: set.Preinsertion,
-		InsertTime: set.InsertTime, Duration: set.Duration, TimeStep: set.TimeStep,
-	}
-	if ws.Preinsertion == 0 {
-		ws.InsertTime = 0
-	}
-	var arr []waves.Arrester
-	for _, a := range opt.Arresters {
-		at := 1
-		if a.At == "sending" {
-			at = 0
-		}
-		arr = append(arr, waves.Arrester{Name: a.Name, At: at, VI: a.VI})
-	}
+	net, ws, arr := switchingSetup(st, ml)
 	runs := 1
 	if len(arr) > 0 {
 		runs = 2

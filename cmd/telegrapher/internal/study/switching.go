@@ -28,6 +28,7 @@ var (
 		"shots", "seed", "close_deg", "pole_sigma_ms", "trapped_pu", "preinsertion_ohm",
 		"preinsertion_ms", "siwl_kv", "ks", "kcd", "duration_ms", "time_step_us",
 		"neutral_reactor_sending_ohm", "neutral_reactor_receiving_ohm", "arrester",
+		"controlled_closing", "controlled_sigma_ms",
 	}
 	arresterKeys = []string{"at", "rated_kv", "vi_ka_kv", "name"}
 )
@@ -49,6 +50,10 @@ type SwitchingOptions struct {
 	NeutralReactorOhm [2]float64 // as given, at frequency_hz
 	Arresters         []ArresterSpec
 	HasKcd, HasKs     bool // given in the file (not the defaults)
+	// Controlled is controlled (point-on-wave) closing: each pole aims at zero voltage
+	// across its contacts, scattered by ControlledSigma (s); replaces random closing.
+	Controlled      bool
+	ControlledSigma float64
 }
 
 func init() {
@@ -253,6 +258,28 @@ func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (Swi
 		o.NeutralReactorL[e] = x / (2 * math.Pi * frequency)
 		if given {
 			add(k, fmt.Sprintf("%g ohm = %.4g H", x, o.NeutralReactorL[e]), true)
+		}
+	}
+	if v, ok := tbl["controlled_closing"]; ok {
+		b, isBool := v.(bool)
+		if !isBool {
+			return s, o, nil, swErrorf(file, path("controlled_closing"), "must be true or false, got %s", describe(v))
+		}
+		o.Controlled = b
+		add("controlled_closing", fmt.Sprintf("%v", b), true)
+	}
+	if sig, given, err := num("controlled_sigma_ms", 1); err != nil {
+		return s, o, nil, err
+	} else {
+		if given && !o.Controlled {
+			return s, o, nil, swErrorf(file, path("controlled_sigma_ms"), "applies to controlled closing only: set switching.controlled_closing = true")
+		}
+		if sig < 0 || sig > 20 {
+			return s, o, nil, swErrorf(file, path("controlled_sigma_ms"), "must be between 0 and 20 ms, got %g", sig)
+		}
+		if o.Controlled {
+			o.ControlledSigma = sig * 1e-3
+			add("controlled_sigma_ms", fmt.Sprintf("%g ms (closing-time scatter of controlled closing)", sig), given)
 		}
 	}
 	if v, ok := tbl["arrester"]; ok {
