@@ -417,7 +417,7 @@ func printConstants(w io.Writer, st *study.Study, r constantsResult) {
 	fmt.Fprintf(w, "  electrical length   %.6g deg\n", r.ElectricalLengthDeg)
 	fmt.Fprintf(w, "\nat the system frequency %g Hz\n", r.SystemFrequencyHz)
 	fmt.Fprintf(w, "  SIL                 %.6g MW at %g kV\n", r.SILMW, st.Voltage/1e3)
-	fmt.Fprintf(w, "  no-load rise        %.6g pu (|Vr/Vs|, receiving end open, line alone)\n", r.NoLoadRisePU)
+	fmt.Fprintf(w, "  no-load rise        %s (|Vr/Vs|, receiving end open, line alone)\n", bounded(r.NoLoadRisePU, "%.6g pu", atResonance))
 	fmt.Fprintln(w, "\nclass")
 	fmt.Fprintf(w, "  by length           %s (short < %g km, medium to %g km, long beyond)\n", r.ClassByLength, shortKm, mediumKm)
 	fmt.Fprintf(w, "  by electrical length %s at %g Hz (short < %g deg, medium to %g deg, long beyond)\n", r.ClassByElectrical, r.FrequencyHz, shortDeg, mediumDeg)
@@ -474,5 +474,5 @@ func pct(v float64) string {
 	if math.IsInf(v, 0) {
 		return "100 % (missing)"
 	}
-	return fmt.Sprintf("%.3g %%", v)
+	return bounded(v, "%.3g %%", exactIsZero)
 }

@@ -405,9 +405,9 @@ func printLoading(w io.Writer, r loadingResult) {
 		r.shuntsSend/1e6, r.shuntsRecv/1e6)
 	o := r.OpenEnd
 	fmt.Fprintln(w, "Receiving end open, sending bus at 1 pu")
-	fmt.Fprintf(w, "  line alone:                 rise %s, charging %s\n", loadingBounded(o.RisePU, "%.4f pu"), loadingBounded(o.ChargingMvar, "%.1f Mvar"))
-	fmt.Fprintf(w, "  with line-connected shunts: rise %s, charging %s (net, into the sending bus)\n", loadingBounded(o.RiseWithShuntsPU, "%.4f pu"), loadingBounded(o.ChargingShuntsMvar, "%.1f Mvar"))
-	fmt.Fprintf(w, "  from the source EMF:        |Vr/E| %s\n", loadingBounded(o.RiseFromEMFPU, "%.4f pu"))
+	fmt.Fprintf(w, "  line alone:                 rise %s, charging %s\n", bounded(o.RisePU, "%.4f pu", atResonance), bounded(o.ChargingMvar, "%.1f Mvar", atResonance))
+	fmt.Fprintf(w, "  with line-connected shunts: rise %s, charging %s (net, into the sending bus)\n", bounded(o.RiseWithShuntsPU, "%.4f pu", atResonance), bounded(o.ChargingShuntsMvar, "%.1f Mvar", atResonance))
+	fmt.Fprintf(w, "  from the source EMF:        |Vr/E| %s\n", bounded(o.RiseFromEMFPU, "%.4f pu", atResonance))
 	fmt.Fprintf(w, "  receiving-end reactor for %.4g pu: %.1f Mvar on the bare line, %.1f Mvar beyond the study's shunts\n\n",
 		o.TargetPU, o.ReactorMvar, o.ReactorAddedMvar)
 	la := r.Loadability
@@ -444,19 +444,4 @@ func loadingWrap(s string, width int) string {
 		n += len(word)
 	}
 	return b.String()
-}
-
-// loadingUnbounded is the magnitude from which an open-end figure is the float64 echo of
-// a quantity unbounded in theory: a lossless line (with its shunts) at an exact
-// resonance gives 1/cos(pi/2), about 1.6e16 in float64, where the true value is
-// infinite. No real line comes near: a lossy 400 kV line gives rises below 10 pu.
-const loadingUnbounded = 1e12
-
-// loadingBounded formats v with format (number and unit), or says "unbounded (a
-// resonance of the lossless line)" when v is beyond loadingUnbounded or infinite.
-func loadingBounded(v float64, format string) string {
-	if math.IsInf(v, 0) || math.Abs(v) >= loadingUnbounded {
-		return "unbounded (a resonance of the lossless line)"
-	}
-	return fmt.Sprintf(format, v)
 }

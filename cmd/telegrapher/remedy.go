@@ -476,17 +476,11 @@ func printRemedy(w io.Writer, r *remedyResult) {
 			if p == nil {
 				return "-"
 			}
-			if math.IsInf(*p, 0) {
-				return "unbounded"
-			}
-			return fmt.Sprintf("%.4g", *p)
+			return bounded(*p, "%.4g", atResonance)
 		}
 		left := "-"
 		if m, ok := r.MarginsLeft[key]; ok {
-			left = fmt.Sprintf("%+.3g", m)
-			if math.IsInf(m, 0) {
-				left = "unbounded"
-			}
+			left = bounded(m, "%+.3g", atResonance)
 		}
 		fmt.Fprintf(w, "%-34s %12s %12s %12s %12s\n", name+" ("+unit+")", cell(b), cell(a), cell(t), left)
 	}
