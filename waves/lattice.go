@@ -280,14 +280,18 @@ func minOf(v []float64) float64 {
 }
 
 // defaultStep is the time step chosen when none is given: a hundredth of the
-// shortest travel time, coarsened so a run has at most 200,000 steps.
+// shortest travel time, coarsened so a run has at most 200,000 steps, and refined so
+// a run shorter than the travel time still has at least minDefaultSteps.
 func defaultStep(tau, duration float64) float64 {
 	dt := tau / 100
 	if duration/dt > 200_000 {
 		dt = duration / 200_000
 	}
-	return dt
+	return math.Min(dt, duration/minDefaultSteps)
 }
+
+// minDefaultSteps is the fewest steps a run gets from the chosen time step.
+const minDefaultSteps = 100
 
 // latticeAt sums the wavefronts passing the point at distance x (m) into m samples.
 func latticeAt(d *LatticeDiagram, atten []float64, x float64, e Energisation, launch, dt float64, m int) []float64 {
