@@ -91,10 +91,26 @@ func (t *Table) Loader() *Loader { return t.ld }
 
 // KeyPath returns the full key path of key in this table.
 func (t *Table) KeyPath(key string) string {
+	key = tomlKey(key)
 	if t.path == "" {
 		return key
 	}
 	return t.path + "." + key
+}
+
+// tomlKey writes a key as TOML would: bare when it is made of A-Z a-z 0-9 _ - (and
+// the . [ ] of the sub-paths and indices the parsers append), quoted otherwise (the
+// empty key "" among them), so every key path names its key.
+func tomlKey(k string) string {
+	if k == "" {
+		return `""`
+	}
+	for _, r := range k {
+		if !(r >= 'A' && r <= 'Z' || r >= 'a' && r <= 'z' || r >= '0' && r <= '9' || r == '_' || r == '-' || r == '.' || r == '[' || r == ']') {
+			return strconv.Quote(k)
+		}
+	}
+	return k
 }
 
 // Has reports whether key is given.
