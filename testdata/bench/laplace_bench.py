@@ -45,10 +45,13 @@ def energise():
 
 
 energise()
-reps = 30
-t0 = time.perf_counter()
-for _ in range(reps):
-    vs, vr = energise()
-ms = (time.perf_counter() - t0) / reps * 1e3
+best = float("inf")
+for _ in range(7):
+    reps = 10
+    t0 = time.perf_counter()
+    for _ in range(reps):
+        vs, vr = energise()
+    best = min(best, (time.perf_counter() - t0) / reps)
+ms = best * 1e3
 i = np.argmax(np.abs(vr))
-print(f"numpy {np.__version__}: {ms:.2f} ms/op, peak {vr[i]:.4f} pu at {i * 2 * DURATION / N * 1e3:.3f} ms")
+print(f"numpy {np.__version__}: {ms:.2f} ms/op (best of 7 runs of 10), peak {vr[i]:.4f} pu at {i * 2 * DURATION / N * 1e3:.3f} ms")
