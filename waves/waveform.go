@@ -72,8 +72,8 @@ func (e Energisation) check() error {
 	case e.Excitation != Step && e.Excitation != Sine:
 		return fmt.Errorf("%w: unknown excitation %d", ErrSettings, int(e.Excitation))
 	}
-	if e.TimeStep > e.Duration/2 {
-		return fmt.Errorf("%w: time step %g s leaves fewer than two samples in the duration %g s", ErrSettings, e.TimeStep, e.Duration)
+	if e.TimeStep > e.Duration {
+		return fmt.Errorf("%w: time step %g s is longer than the duration %g s (a waveform needs two samples at least)", ErrSettings, e.TimeStep, e.Duration)
 	}
 	if e.TimeStep > 0 && e.Duration/e.TimeStep > MaxSamples {
 		return fmt.Errorf("%w: duration / time step = %.4g exceeds %d samples", ErrSettings, e.Duration/e.TimeStep, MaxSamples)
