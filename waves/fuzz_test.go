@@ -49,9 +49,10 @@ func FuzzLaplace(f *testing.F) {
 		if sine {
 			e.Excitation = Sine
 		}
-		// bounded size: at most 40 travel times, at most 4096 output samples
+		// bounded size: at most 40 travel times, at most 4096 output samples, and a
+		// step no longer than the run (a longer one is refused: Energisation.check)
 		e.Duration = math.Min(clampFuzz(durMs, 0.01, 20)/1e3, 40*tau)
-		e.TimeStep = math.Max(tau/100, e.Duration/4096)
+		e.TimeStep = math.Min(math.Max(tau/100, e.Duration/4096), e.Duration)
 		w, err := Laplace(n.Energising(), e, LaplaceOptions{})
 		if err != nil {
 			t.Fatalf("valid network refused: %v", err)
