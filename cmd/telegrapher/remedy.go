@@ -314,7 +314,7 @@ func computeRemedyProgress(st *study.Study, progress func(done, total int)) (rem
 		res.Notes = append(res.Notes, fmt.Sprintf("switching figures: %d seeded shots (switching.seed %d) per candidate, the study's [switching] settings", st.Switching.Shots, st.Switching.Seed))
 	}
 	if c.Controlled {
-		res.Notes = append(res.Notes, "controlled closing is not a [switching] setting: the 'switching' command cannot reproduce it; the figures here come from the same simulator with each pole aimed where the voltage across its contacts is zero")
+		res.Notes = append(res.Notes, "controlled closing: apply it as [switching] controlled_closing = true with controlled_sigma_ms; each pole aims where the voltage across its contacts is zero")
 	}
 	if c.ReactorSending > 0 || c.ReactorReceiving > 0 {
 		res.Notes = append(res.Notes, fmt.Sprintf("to apply: add a [[shunt]] with connection = \"line\", the rating as mvar and q_factor = %d at each end that changes", remedyReactorQ))

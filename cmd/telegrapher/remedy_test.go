@@ -56,8 +56,9 @@ func remedyWithout(t *testing.T, text string) string {
 }
 
 // remedyApply edits the study text by hand as an engineer would: one [[shunt]] per
-// added reactor (q_factor as the search assumes), switching.preinsertion_ohm, and a
-// [[switching.arrester]] at each end. The study must have a [switching] table when a
+// added reactor (q_factor as the search assumes), switching.preinsertion_ohm,
+// switching.controlled_closing with its scatter, and a [[switching.arrester]] at
+// each end. The study must have a [switching] table when a
 // switching lever changes; its keys are inserted right after the header.
 func remedyApply(t *testing.T, text string, ch remedyChanges) string {
 	t.Helper()
@@ -65,8 +66,11 @@ func remedyApply(t *testing.T, text string, ch remedyChanges) string {
 	if ch.PreinsertionOhm != nil {
 		sw = append(sw, fmt.Sprintf("preinsertion_ohm = %v", *ch.PreinsertionOhm))
 	}
-	if ch.ControlledClosing != nil {
-		t.Fatal("controlled closing cannot be written into a study file")
+	if ch.ControlledClosing != nil && *ch.ControlledClosing {
+		sw = append(sw, "controlled_closing = true")
+		if ch.ControlledSigmaMs != nil {
+			sw = append(sw, fmt.Sprintf("controlled_sigma_ms = %v", *ch.ControlledSigmaMs))
+		}
 	}
 	if len(sw) > 0 {
 		if !strings.Contains(text, "\n[switching]\n") {
@@ -227,6 +231,18 @@ func TestRemedyControlledClosingLowersU2(t *testing.T) {
 	}
 	if math.Abs(sw.U2PU-random) > remedyExactTol*random {
 		t.Errorf("remedy random-closing u2 %.12g, switching command %.12g", random, sw.U2PU)
+	}
+	// And the controlled figure is the switching command's on the study with
+	// controlled closing written in by hand.
+	on := true
+	sigma := st.Remedy().Levers.ControlledSigma * 1e3
+	edited := remedyParse(t, "edited.toml", remedyApply(t, remedyReadFile(t, "remedy_switching.toml"), remedyChanges{ControlledClosing: &on, ControlledSigmaMs: &sigma}))
+	swc, err := computeSwitching(edited)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(swc.U2PU-controlled) > remedyExactTol*controlled {
+		t.Errorf("remedy controlled-closing u2 %.12g, switching command with controlled_closing %.12g", controlled, swc.U2PU)
 	}
 }
 

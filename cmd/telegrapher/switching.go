@@ -334,6 +334,9 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int)) (
 	res.Notes = append(res.Notes,
 		fmt.Sprintf("statistics: IEC 60071-2 phase-peak method (u2 = 98th percentile of the %d absolute phase peaks, linear interpolation; ut = 1.25 u2 - 0.25) and case-peak method (ut = 1.13 u2 - 0.13), per unit of Us*sqrt(2)/sqrt(3) = %.1f kV", 3*set.Shots, baseIEC/1e3),
 		"pole closing instants are rounded to the time step; duration counted from the last pole's last contact (resistor bypass included)")
+	if ws.Controlled {
+		res.Notes = append(res.Notes, fmt.Sprintf("controlled closing: each pole aims where the voltage across its contacts is zero, scattered by %g ms (normal, truncated at 3 sigma), instead of random closing", ws.ControlledSigma*1e3))
+	}
 	// Switching coordination current: 2 kA above 362 kV, 1 kA below (IEC 60099-5, from memory).
 	ka := 1.0
 	if st.Us > 362e3 {
