@@ -89,10 +89,7 @@ overvoltages (no surge arresters).`,
 				}
 				st, err := study.Load(args[0])
 				if err != nil {
-					if study.IsInputError(err) {
-						return usagef("%v", err)
-					}
-					return err
+					return err // a study input error: exit 2 (errors.go)
 				}
 				res, err := computeEnergise(st, *method)
 				if err != nil {

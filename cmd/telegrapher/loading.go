@@ -69,13 +69,10 @@ profiles for a few loadings, reactive power against loading, and the loadability
 				if !(*target > 0) || *target > 2 || math.IsNaN(*target) {
 					return usagef("telegrapher loading: --target-pu: must be > 0 and <= 2, got %g", *target)
 				}
-				format := ""
 				if *plotPath != "" {
-					f, err := report.PlotFormat(*plotPath, "plot")
-					if err != nil {
+					if _, err := report.PlotFormat(*plotPath, "plot"); err != nil {
 						return usagef("telegrapher loading: %v", err)
 					}
-					format = f
 				}
 				st, err := study.Load(args[0])
 				if err != nil {
@@ -88,13 +85,9 @@ profiles for a few loadings, reactive power against loading, and the loadability
 				if err != nil {
 					return usagef("%s: %v", st.File, err)
 				}
-				if format != "" {
-					b, err := report.RenderLoadingFigure(loadingPlots(r), 8*vg.Inch, 4*vg.Inch, format)
-					if err != nil {
-						return err
-					}
-					if err := report.WriteFileAtomic(*plotPath, b); err != nil {
-						return err
+				if *plotPath != "" {
+					if err := report.SaveStacked(loadingPlots(r), 8*vg.Inch, 4*vg.Inch, *plotPath); err != nil {
+						return fmt.Errorf("--plot %s: %v", *plotPath, err)
 					}
 				}
 				if *asJSON {

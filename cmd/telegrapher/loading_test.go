@@ -103,7 +103,7 @@ func TestLoadingFigureRenders(t *testing.T) {
 	}
 	dir := t.TempDir()
 	for _, format := range []string{"png", "svg"} {
-		b, err := report.RenderLoadingFigure(loadingPlots(r), 8*vg.Inch, 4*vg.Inch, format)
+		b, err := report.RenderStacked(loadingPlots(r), 8*vg.Inch, 4*vg.Inch, format)
 		if err != nil {
 			t.Fatal(err)
 		}

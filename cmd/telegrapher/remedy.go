@@ -75,20 +75,14 @@ harmonics marked; u2 against the pre-insertion resistor).`,
 				if len(args) != 1 {
 					return usagef("telegrapher remedy: expected one STUDY file, got %d arguments\nusage: telegrapher remedy STUDY [--json] [--plot F]", len(args))
 				}
-				format := ""
 				if *plotPath != "" {
-					f, err := report.PlotFormat(*plotPath, "plot")
-					if err != nil {
+					if _, err := report.PlotFormat(*plotPath, "plot"); err != nil {
 						return usagef("%v", err)
 					}
-					format = f
 				}
 				st, err := study.Load(args[0])
 				if err != nil {
-					if study.IsInputError(err) {
-						return usagef("%v", err)
-					}
-					return err
+					return err // a study input error: exit 2 (errors.go)
 				}
 				res, err := computeRemedyProgress(st, remedyProgressBar(stderr))
 				if err != nil {
@@ -99,11 +93,7 @@ harmonics marked; u2 against the pre-insertion resistor).`,
 					if err != nil {
 						return usagef("--plot %s: %v", *plotPath, err)
 					}
-					b, err := report.RenderLoadingFigure(plots, 20*vg.Centimeter, 11*vg.Centimeter, format)
-					if err != nil {
-						return err
-					}
-					if err := report.WriteFileAtomic(*plotPath, b); err != nil {
+					if err := report.SaveStacked(plots, 20*vg.Centimeter, 11*vg.Centimeter, *plotPath); err != nil {
 						return fmt.Errorf("--plot %s: %v", *plotPath, err)
 					}
 				}

@@ -1002,7 +1002,7 @@ func (rr *reportRun) loadingSection() (report.Section, error) {
 			sec.Facts = append(sec.Facts, report.Fact{Name: "at SIL", Value: fmt.Sprintf("angle %.1f°, Qs %.1f Mvar, Qr %.1f Mvar, mid-line %.4f pu", p.DeltaDeg, p.QsMvar, p.QrMvar, p.VMidPU)})
 		}
 	}
-	svg, err := report.RenderLoadingFigure(loadingPlots(r), reportPlotW, 3.6*vg.Inch, "svg")
+	svg, err := report.RenderStacked(loadingPlots(r), reportPlotW, 3.6*vg.Inch, "svg")
 	if err != nil {
 		return report.Section{}, fmt.Errorf("drawing loading.svg: %w", err)
 	}

@@ -80,22 +80,14 @@ writes the distribution on a normal-probability scale and the worst shot's wavef
 				}
 				st, err := study.Load(args[0])
 				if err != nil {
-					if study.IsInputError(err) {
-						return usagef("%v", err)
-					}
-					return err
+					return err // a study input error: exit 2 (errors.go)
 				}
 				res, err := computeSwitchingProgress(st, progressBar(stderr))
 				if err != nil {
 					return err
 				}
 				if *plotPath != "" {
-					format, _ := report.PlotFormat(*plotPath, "plot")
-					b, err := report.RenderLoadingFigure(switchingPlots(&res), 20*vg.Centimeter, 12*vg.Centimeter, format)
-					if err != nil {
-						return err
-					}
-					if err := report.WriteFileAtomic(*plotPath, b); err != nil {
+					if err := report.SaveStacked(switchingPlots(&res), 20*vg.Centimeter, 12*vg.Centimeter, *plotPath); err != nil {
 						return fmt.Errorf("--plot %s: %v", *plotPath, err)
 					}
 				}

@@ -6,12 +6,16 @@ package report
 import (
 	"bytes"
 	"fmt"
+	"image/color"
 	"os"
 	"path/filepath"
 	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/vgimg"
+	"gonum.org/v1/plot/vg/vgsvg"
 )
 
 // WriteFileAtomic writes data to path through a temporary file in the same folder,
@@ -78,4 +82,55 @@ func RenderPlot(p *plot.Plot, w, h vg.Length, format string) ([]byte, error) {
 		return nil, err
 	}
 	return buf.Bytes(), nil
+}
+
+// RenderStacked renders plots stacked in one column as one figure of width w and
+// panel height h each, in "png" or "svg".
+func RenderStacked(plots []*plot.Plot, w, h vg.Length, format string) ([]byte, error) {
+	if len(plots) == 0 {
+		return nil, fmt.Errorf("report: no plots to render")
+	}
+	total := h * vg.Length(len(plots))
+	var c vg.CanvasWriterTo
+	switch format {
+	case "png":
+		c = vgimg.PngCanvas{Canvas: vgimg.NewWith(vgimg.UseWH(w, total), vgimg.UseDPI(96))}
+	case "svg":
+		c = vgsvg.New(w, total)
+	default:
+		return nil, fmt.Errorf("report: unknown plot format %q", format)
+	}
+	// A white page below the panels, for PNG viewers with dark backgrounds.
+	dc := draw.New(c)
+	dc.SetColor(color.White)
+	dc.Fill(dc.Rectangle.Path())
+	rows := make([][]*plot.Plot, len(plots))
+	for i, p := range plots {
+		rows[i] = []*plot.Plot{p}
+	}
+	tiles := draw.Tiles{Rows: len(plots), Cols: 1, PadTop: vg.Points(6), PadBottom: vg.Points(6),
+		PadLeft: vg.Points(6), PadRight: vg.Points(12), PadY: vg.Points(18)}
+	cs := plot.Align(rows, tiles, dc)
+	for i, p := range plots {
+		p.Draw(cs[i][0])
+	}
+	var buf bytes.Buffer
+	if _, err := c.WriteTo(&buf); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+// SaveStacked renders plots stacked in one column (RenderStacked) to path, PNG or SVG
+// by its extension, atomically.
+func SaveStacked(plots []*plot.Plot, w, h vg.Length, path string) error {
+	format, err := PlotFormat(path, "plot")
+	if err != nil {
+		return err
+	}
+	b, err := RenderStacked(plots, w, h, format)
+	if err != nil {
+		return err
+	}
+	return WriteFileAtomic(path, b)
 }

@@ -6,10 +6,8 @@ package report
 //	LoadingProfilePlot   voltage along the line for a few loadings
 //	LoadingReactivePlot  reactive power at each end (and angle) against loading
 //	LoadabilityPlot      loadability against length, with this line marked
-//	RenderLoadingFigure         several plots as one figure (PNG or SVG bytes)
 
 import (
-	"bytes"
 	"fmt"
 	"image/color"
 	"math"
@@ -19,8 +17,6 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
-	"gonum.org/v1/plot/vg/vgimg"
-	"gonum.org/v1/plot/vg/vgsvg"
 )
 
 // LoadingProfile is one voltage profile along the line.
@@ -228,41 +224,4 @@ func (ldTicks) Ticks(lo, hi float64) []plot.Tick {
 		ticks = append(ticks, plot.Tick{Value: v, Label: strconv.FormatFloat(v, 'f', digits, 64)})
 	}
 	return ticks
-}
-
-// RenderLoadingFigure renders plots stacked in one column as one figure of width w and
-// panel height h each, in "png" or "svg".
-func RenderLoadingFigure(plots []*plot.Plot, w, h vg.Length, format string) ([]byte, error) {
-	if len(plots) == 0 {
-		return nil, fmt.Errorf("report: no plots to render")
-	}
-	total := h * vg.Length(len(plots))
-	var c vg.CanvasWriterTo
-	switch format {
-	case "png":
-		c = vgimg.PngCanvas{Canvas: vgimg.NewWith(vgimg.UseWH(w, total), vgimg.UseDPI(96))}
-	case "svg":
-		c = vgsvg.New(w, total)
-	default:
-		return nil, fmt.Errorf("report: unknown plot format %q", format)
-	}
-	// A white page below the panels, for PNG viewers with dark backgrounds.
-	dc := draw.New(c)
-	dc.SetColor(color.White)
-	dc.Fill(dc.Rectangle.Path())
-	rows := make([][]*plot.Plot, len(plots))
-	for i, p := range plots {
-		rows[i] = []*plot.Plot{p}
-	}
-	tiles := draw.Tiles{Rows: len(plots), Cols: 1, PadTop: vg.Points(6), PadBottom: vg.Points(6),
-		PadLeft: vg.Points(6), PadRight: vg.Points(12), PadY: vg.Points(18)}
-	cs := plot.Align(rows, tiles, dc)
-	for i, p := range plots {
-		p.Draw(cs[i][0])
-	}
-	var buf bytes.Buffer
-	if _, err := c.WriteTo(&buf); err != nil {
-		return nil, err
-	}
-	return buf.Bytes(), nil
 }

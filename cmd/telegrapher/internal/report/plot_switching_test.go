@@ -30,7 +30,7 @@ func TestSwitchingPlotsRender(t *testing.T) {
 	}
 	wave := SwitchingWaveformPlot(tm, ph, [3]float64{0, 1, 2}, 2, "")
 	for _, format := range []string{"png", "svg"} {
-		b, err := RenderLoadingFigure(nil, 10*vg.Centimeter, 8*vg.Centimeter, format)
+		b, err := RenderStacked(nil, 10*vg.Centimeter, 8*vg.Centimeter, format)
 		if err == nil || b != nil {
 			t.Errorf("%s: empty figure rendered", format)
 		}
