@@ -27,60 +27,21 @@ import (
 // hostileDir holds the hostile study files.
 const hostileDir = "testdata/hostile"
 
-// hostileBase is a valid study with every table the commands read (switching needs the
-// zero sequence, remedy needs targets and levers). The control test runs every command
-// on it, so the battery cannot pass only because a command refuses everything.
-const hostileBase = `title = "Hostile battery base: invented 400 kV, 320 km line"
-frequency_hz = 50
-voltage_kv = 400
-us_kv = 420
+// hostileBaseFile is a valid study with every table the commands read (switching
+// needs the zero sequence, remedy needs targets and levers); gen_hostile.py breaks it
+// one way per file. The control test runs every command on it, so the battery cannot
+// pass only because a command refuses everything.
+const hostileBaseFile = "testdata/hostile/base-valid.txt"
 
-[line]
-length_km = 320
-r_ohm_per_km = 0.025
-l_mh_per_km = 0.95
-c_nf_per_km = 12.0
-r0_ohm_per_km = 0.25
-l0_mh_per_km = 3.0
-c0_nf_per_km = 7.5
-
-[source]
-short_circuit_mva = 15000
-x_over_r = 12
-x0_over_x1 = 1.2
-
-[[shunt]]
-at = "receiving"
-connection = "line"
-mvar = 150
-q_factor = 300
-
-[receiving]
-load_mw = 300
-load_mvar = 60
-
-[scan]
-f_min_hz = 1
-f_max_hz = 2500
-points = 500
-
-[energise]
-waveform = "step"
-duration_ms = 10
-method = "laplace"
-
-[switching]
-shots = 20
-seed = 1
-pole_sigma_ms = 1.0
-duration_ms = 10
-
-[targets]
-max_open_end_pu = 1.05
-
-[levers]
-reactor_mvar_receiving = [0, 300]
-`
+// hostileBase returns the valid base study.
+func hostileBase(t *testing.T) string {
+	t.Helper()
+	b, err := os.ReadFile(hostileBaseFile)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(b)
+}
 
 // hostileEmptyWant gives the expected message of the files that cannot carry a
 // "# want:" comment, by file name after the number ("NN-empty.toml").
@@ -176,7 +137,7 @@ func TestHostileBatteryEveryCommand(t *testing.T) {
 	gen := t.TempDir()
 	big := filepath.Join(gen, "too-large.toml")
 	pad := strings.Repeat("# padding to exceed the size cap of a study file\n", (1<<20)/48+10)
-	if err := os.WriteFile(big, []byte(hostileBase+pad), 0o644); err != nil {
+	if err := os.WriteFile(big, []byte(hostileBase(t)+pad), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	dirStudy := filepath.Join(gen, "a-directory.toml")
@@ -234,7 +195,7 @@ func TestHostileBatteryEveryCommand(t *testing.T) {
 func TestHostileBatteryControl(t *testing.T) {
 	t.Parallel()
 	study := filepath.Join(t.TempDir(), "base.toml")
-	if err := os.WriteFile(study, []byte(hostileBase), 0o644); err != nil {
+	if err := os.WriteFile(study, []byte(hostileBase(t)), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	for _, inv := range hostileInvocations {
@@ -288,7 +249,7 @@ func TestHostileMethodRefusal(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
 	study := filepath.Join(dir, "inductive.toml")
-	src := strings.Replace(hostileBase, `method = "laplace"`, `method = "lattice"`, 1)
+	src := strings.Replace(hostileBase(t), `method = "laplace"`, `method = "lattice"`, 1)
 	if err := os.WriteFile(study, []byte(src), 0o644); err != nil {
 		t.Fatal(err)
 	}

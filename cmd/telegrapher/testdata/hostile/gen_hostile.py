@@ -1,62 +1,12 @@
 #!/usr/bin/env python3
 """Writes the hostile study files NN-what.toml beside this script: a valid base study
-(the same as hostileBase in cmd/telegrapher/hostile_test.go) broken in one way per file.
+(base-valid.txt, which the test's control case also runs) broken in one way per file.
 Each file ends with a "# want: ..." comment, the text its error message must contain
 (the empty files, which cannot carry one, are listed in the test). Plain Python 3, no
 packages: python3 gen_hostile.py
 """
 import re, os, glob
-base = '''title = "Hostile battery base: invented 400 kV, 320 km line"
-frequency_hz = 50
-voltage_kv = 400
-us_kv = 420
-
-[line]
-length_km = 320
-r_ohm_per_km = 0.025
-l_mh_per_km = 0.95
-c_nf_per_km = 12.0
-r0_ohm_per_km = 0.25
-l0_mh_per_km = 3.0
-c0_nf_per_km = 7.5
-
-[source]
-short_circuit_mva = 15000
-x_over_r = 12
-x0_over_x1 = 1.2
-
-[[shunt]]
-at = "receiving"
-connection = "line"
-mvar = 150
-q_factor = 300
-
-[receiving]
-load_mw = 300
-load_mvar = 60
-
-[scan]
-f_min_hz = 1
-f_max_hz = 2500
-points = 500
-
-[energise]
-waveform = "step"
-duration_ms = 10
-method = "laplace"
-
-[switching]
-shots = 20
-seed = 1
-pole_sigma_ms = 1.0
-duration_ms = 10
-
-[targets]
-max_open_end_pu = 1.05
-
-[levers]
-reactor_mvar_receiving = [0, 300]
-'''
+base = open(os.path.join(os.path.dirname(os.path.abspath(__file__)), 'base-valid.txt')).read()
 out = os.path.dirname(os.path.abspath(__file__))
 def sect(src, table):
     # returns (start, end) of the table body
