@@ -352,9 +352,8 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int)) (
 			res.MarginArresterPct = &m
 		}
 		res.Notes = append(res.Notes, fmt.Sprintf("with arresters: Ups = %.0f kV at %.0f kA; IEC 60071-2 Fig. 6 (phase-peak, approximate reading) gives kcd = %.3f for Ups/u2 = %.2f (the margin uses kcd = %.3f as given)", ups, ka, res.KcdFigure, ups/fBare.U2KV, set.Kcd))
-	} else {
-		res.Notes = append(res.Notes, "unprotected overvoltages: no surge arresters in the study")
 	}
+	// Without arresters the simulator's own notes say the results are unprotected.
 	// Worst shot: the largest case peak of the study as given, simulated again with its
 	// waveforms recorded.
 	worst, wv := 0, -1.0
