@@ -24,10 +24,7 @@ impedance from its short-circuit level, an inductance from a reactance). Any pro
 reported as FILE: key.path: problem, with exit status 2.`,
 		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
 			return func(args []string) error {
-				if len(args) != 1 {
-					return usagef("telegrapher check: give one study file\nusage: telegrapher check STUDY")
-				}
-				st, err := study.Load(args[0])
+				st, err := studyArg("check", args)
 				if err != nil {
 					return err
 				}

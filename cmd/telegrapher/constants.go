@@ -42,16 +42,13 @@ the whole cascade. --json writes the same as one JSON document.`,
 			sweep := fs.Bool("sweep", false, "also list the constants over frequency, 1 Hz to 1 MHz")
 			plotPath := fs.String("plot", "", "with --sweep: write the sweep plot to `FILE` (.png or .svg)")
 			return func(args []string) error {
-				if len(args) != 1 {
-					return usagef("telegrapher constants: give one study file\nusage: telegrapher constants STUDY [--at-hz F] [--sweep [--plot F]] [--json]")
-				}
 				if *atHz != 0 && !(*atHz > 0 && *atHz <= maxAtHz) {
 					return usagef("telegrapher constants: --at-hz must be > 0 and at most %g, got %g", maxAtHz, *atHz)
 				}
 				if *plotPath != "" && !*sweep {
 					return usagef("telegrapher constants: --plot needs --sweep")
 				}
-				st, err := study.Load(args[0])
+				st, err := studyArg("constants", args, [2]string{"plot", *plotPath})
 				if err != nil {
 					return err
 				}

@@ -74,22 +74,12 @@ overvoltages (no surge arresters).`,
 			plotPath := fs.String("plot", "", "write the waveforms plot (.png or .svg)")
 			diagramPath := fs.String("diagram", "", "write the lattice diagram (.png or .svg)")
 			return func(args []string) error {
-				if len(args) != 1 {
-					return usagef("telegrapher energise: need exactly one STUDY file, got %d arguments\nusage: telegrapher energise %s", len(args), "STUDY [flags]")
-				}
-				for _, pf := range []struct{ path, name string }{{*plotPath, "plot"}, {*diagramPath, "diagram"}} {
-					if pf.path != "" {
-						if _, err := report.PlotFormat(pf.path, pf.name); err != nil {
-							return usagef("%v", err)
-						}
-					}
-				}
 				if *method != "" && !validMethod(*method) {
-					return usagef("--method %s: must be lattice, bergeron or laplace", *method)
+					return usagef("telegrapher energise: --method %s: must be lattice, bergeron or laplace", *method)
 				}
-				st, err := study.Load(args[0])
+				st, err := studyArg("energise", args, [2]string{"plot", *plotPath}, [2]string{"diagram", *diagramPath})
 				if err != nil {
-					return err // a study input error: exit 2 (errors.go)
+					return err
 				}
 				res, err := computeEnergise(st, *method)
 				if err != nil {

@@ -63,22 +63,11 @@ profiles for a few loadings, reactive power against loading, and the loadability
 			plotPath := fs.String("plot", "", "write the figure to `F` (.png or .svg)")
 			target := fs.Float64("target-pu", 1.0, "open-end voltage `X` (pu of the sending end) the receiving-end reactor should give")
 			return func(args []string) error {
-				if len(args) != 1 {
-					return usagef("telegrapher loading: expected one STUDY file, got %d arguments\nusage: telegrapher loading STUDY [--json] [--plot F] [--target-pu X]", len(args))
-				}
 				if !(*target > 0) || *target > 2 || math.IsNaN(*target) {
 					return usagef("telegrapher loading: --target-pu: must be > 0 and <= 2, got %g", *target)
 				}
-				if *plotPath != "" {
-					if _, err := report.PlotFormat(*plotPath, "plot"); err != nil {
-						return usagef("telegrapher loading: %v", err)
-					}
-				}
-				st, err := study.Load(args[0])
+				st, err := studyArg("loading", args, [2]string{"plot", *plotPath})
 				if err != nil {
-					if study.IsInputError(err) {
-						return &usageError{err.Error()}
-					}
 					return err
 				}
 				r, err := computeLoading(st, *target)

@@ -19,6 +19,7 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 )
 
@@ -194,3 +195,24 @@ func suggestCommand(s string) string {
 // Caution is the safety note every report and the help text carry.
 const Caution = "Caution: telegrapher screens and plans; it does not certify. Its results depend on the data given " +
 	"and do not replace a detailed study, the applicable standards and codes, or the judgement of a licensed engineer."
+
+// studyArg is the common start of a command that takes one STUDY: it checks that
+// args holds exactly one file, that each file flag given (name, path) ends in .png or
+// .svg, and loads the study. Every failure is an input error (exit 2).
+func studyArg(cmd string, args []string, plotFlags ...[2]string) (*study.Study, error) {
+	if len(args) != 1 {
+		usage := "STUDY"
+		if c, ok := commands[cmd]; ok {
+			usage = c.args
+		}
+		return nil, usagef("telegrapher %s: expected one study file, got %d arguments\nusage: telegrapher %s %s", cmd, len(args), cmd, usage)
+	}
+	for _, f := range plotFlags {
+		if f[1] != "" {
+			if _, err := report.PlotFormat(f[1], f[0]); err != nil {
+				return nil, usagef("%v", err)
+			}
+		}
+	}
+	return study.Load(args[0]) // a study input error: exit 2 (errors.go)
+}

@@ -72,17 +72,9 @@ harmonics marked; u2 against the pre-insertion resistor).`,
 			asJSON := fs.Bool("json", false, "write the results as one JSON document")
 			plotPath := fs.String("plot", "", "write the trade-off plots to `F` (.png or .svg)")
 			return func(args []string) error {
-				if len(args) != 1 {
-					return usagef("telegrapher remedy: expected one STUDY file, got %d arguments\nusage: telegrapher remedy STUDY [--json] [--plot F]", len(args))
-				}
-				if *plotPath != "" {
-					if _, err := report.PlotFormat(*plotPath, "plot"); err != nil {
-						return usagef("%v", err)
-					}
-				}
-				st, err := study.Load(args[0])
+				st, err := studyArg("remedy", args, [2]string{"plot", *plotPath})
 				if err != nil {
-					return err // a study input error: exit 2 (errors.go)
+					return err
 				}
 				res, err := computeRemedyProgress(st, remedyProgressBar(stderr))
 				if err != nil {

@@ -449,13 +449,10 @@ wrote it (it holds a .telegrapher-report marker) or is empty; anything else need
 			out := fs.String("out", "", "write the report into folder `DIR` (required)")
 			force := fs.Bool("force", false, "replace DIR even when it was not written by telegrapher")
 			return func(args []string) error {
-				if len(args) != 1 {
-					return usagef("telegrapher report: expected one STUDY file, got %d arguments\nusage: telegrapher report STUDY --out DIR [--force]", len(args))
-				}
 				if *out == "" {
 					return usagef("telegrapher report: --out DIR is required\nusage: telegrapher report STUDY --out DIR [--force]")
 				}
-				st, err := study.Load(args[0])
+				st, err := studyArg("report", args)
 				if err != nil {
 					return err
 				}

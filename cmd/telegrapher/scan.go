@@ -57,17 +57,7 @@ frequency. An exactly lossless network has unbounded resonances: they are report
 			plotPath := fs.String("plot", "", "write the gain plot (PNG or SVG by extension)")
 			mapPath := fs.String("map", "", "write the source-strength heat map (PNG or SVG)")
 			return func(args []string) error {
-				if len(args) != 1 {
-					return usagef("scan: expected one study file, got %d arguments\nusage: telegrapher scan %s", len(args), "STUDY [--json] [--csv F] [--plot F] [--map F]")
-				}
-				for _, f := range []struct{ path, name string }{{*plotPath, "plot"}, {*mapPath, "map"}} {
-					if f.path != "" {
-						if _, err := report.PlotFormat(f.path, f.name); err != nil {
-							return usagef("%v", err)
-						}
-					}
-				}
-				st, err := study.Load(args[0])
+				st, err := studyArg("scan", args, [2]string{"plot", *plotPath}, [2]string{"map", *mapPath})
 				if err != nil {
 					return err
 				}

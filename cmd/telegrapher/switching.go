@@ -70,17 +70,9 @@ writes the distribution on a normal-probability scale and the worst shot's wavef
 			asJSON := fs.Bool("json", false, "write the results as one JSON document")
 			plotPath := fs.String("plot", "", "write the distribution and the worst shot to `F` (.png or .svg)")
 			return func(args []string) error {
-				if len(args) != 1 {
-					return usagef("telegrapher switching: expected one STUDY file, got %d arguments\nusage: telegrapher switching STUDY [--json] [--plot F]", len(args))
-				}
-				if *plotPath != "" {
-					if _, err := report.PlotFormat(*plotPath, "plot"); err != nil {
-						return usagef("%v", err)
-					}
-				}
-				st, err := study.Load(args[0])
+				st, err := studyArg("switching", args, [2]string{"plot", *plotPath})
 				if err != nil {
-					return err // a study input error: exit 2 (errors.go)
+					return err
 				}
 				res, err := computeSwitchingProgress(st, progressBar(stderr))
 				if err != nil {
