@@ -540,7 +540,10 @@ func remedyReportPart(st *study.Study) (sec report.Section, figs []remedyFigure,
 	case r.Feasible && len(changes) == 0:
 		sec.Reading = "the study as given meets every target"
 	case r.Feasible:
-		sec.Reading = fmt.Sprintf("cheapest change meeting every target (cost %.1f units): %s", r.Cost, strings.Join(changes, "; "))
+		// The study as given misses a target: the section needs attention even
+		// though a change within the levers meets them all.
+		sec.Verdict = report.Flagged
+		sec.Reading = fmt.Sprintf("the study as given misses a target; cheapest change meeting every target (cost %.1f units): %s", r.Cost, strings.Join(changes, "; "))
 	default:
 		sec.Verdict = report.Flagged
 		sec.Reading = fmt.Sprintf("no change within the levers meets every target; binding: %s; closest case: %s", r.Binding, strings.Join(changes, "; "))
