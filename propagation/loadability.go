@@ -19,6 +19,9 @@ type LoadabilityLimits struct {
 	// Zs and Zr are the Thevenin impedances (ohm, at the system frequency) of the
 	// sending- and receiving-end systems, without the line.
 	Zs, Zr complex128
+	// Thermal is the thermal limit (W): the line's current rating at its nominal
+	// voltage, sqrt(3)·V·I, taken as active power at unity power factor; 0 = none.
+	Thermal float64
 }
 
 // TerminalImpedance returns the Thevenin impedance (ohm) of a system with the
@@ -56,10 +59,11 @@ type LoadabilityPoint struct {
 	SIL         float64 // W
 	VoltageDrop float64 // power (W) at which the receiving end falls to (1 - drop)·Vs at unity power factor
 	Stability   float64 // power (W) at which the stability margin falls to the limit
-	Loadability float64 // the smaller of the two, W
+	Thermal     float64 // thermal limit (W) from LoadabilityLimits.Thermal; 0 = none
+	Loadability float64 // the smallest of the limits, W
 	LineAngle   float64 // angle across the line at the stability limit, rad
 	SystemAngle float64 // angle between the terminal EMFs at the stability limit, rad
-	Governs     string  // "voltage drop" or "stability"
+	Governs     string  // "voltage drop", "stability" or "thermal"
 }
 
 // Loadability returns the loadability of the cascade c at the line-to-line rms
@@ -69,8 +73,9 @@ type LoadabilityPoint struct {
 //
 //	Es --Zs-- Vs ==== line ==== Vr --Zr-- Er
 //
-// with the exact two-port of the line (losses included). Two limits are computed
-// and the smaller is the loadability (no thermal limit is applied):
+// with the exact two-port of the line (losses included). Two limits are computed,
+// and a third when lim.Thermal is set (the conductor rating, independent of length,
+// which governs short lines in the paper); the smallest is the loadability:
 //
 //   - voltage drop: Vs = v, the line delivering active power only (unity power
 //     factor, no reactive support at the receiving end), and |Vr| = (1 - drop)·v.
@@ -177,6 +182,12 @@ func Loadability(c Cascade, omega, v float64, lim LoadabilityLimits) (Loadabilit
 	pt.Loadability, pt.Governs = pt.VoltageDrop, "voltage drop"
 	if pt.Stability < pt.VoltageDrop {
 		pt.Loadability, pt.Governs = pt.Stability, "stability"
+	}
+	if lim.Thermal > 0 {
+		pt.Thermal = lim.Thermal
+		if lim.Thermal < pt.Loadability {
+			pt.Loadability, pt.Governs = lim.Thermal, "thermal"
+		}
 	}
 	return pt, nil
 }

@@ -87,3 +87,28 @@ func TestLoadabilityIdentities(t *testing.T) {
 		}
 	}
 }
+
+// A conductor rating caps the loadability of short lines and leaves long ones to the
+// other limits: the thermal limit does not depend on length (Dunlop, Gutman and
+// Marchenko 1979: thermal governs below about 80 km; Kundur 1994, §6.1.12).
+func TestLoadabilityThermalLimit(t *testing.T) {
+	t.Parallel()
+	line, omega, v := paperLine()
+	lim := DefaultLoadabilityLimits(v)
+	sil := SurgeImpedanceLoading(line, v, omega)
+	lim.Thermal = 2 * sil // a rating of 2 SIL
+	pts, err := LoadabilityCurve(line, omega, v, lim, []float64{40e3, 80e3, 600e3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	short, mid, long := pts[0], pts[1], pts[2]
+	if short.Governs != "thermal" || short.Loadability != lim.Thermal || short.Thermal != lim.Thermal {
+		t.Errorf("40 km: %s governs at %.3f SIL, want the thermal limit at 2 SIL", short.Governs, short.Loadability/short.SIL)
+	}
+	if mid.Governs != "thermal" || mid.Loadability != lim.Thermal {
+		t.Errorf("80 km (about 3 SIL without a rating): %s governs at %.3f SIL, want thermal at 2", mid.Governs, mid.Loadability/mid.SIL)
+	}
+	if long.Governs == "thermal" || long.Loadability != math.Min(long.VoltageDrop, long.Stability) {
+		t.Errorf("600 km: %s governs at %.3f SIL, want the smaller of voltage drop and stability", long.Governs, long.Loadability/long.SIL)
+	}
+}

@@ -151,6 +151,7 @@ type loadabilityJSON struct {
 	SendingSystem      string               `json:"sending_system"`
 	ReceivingSystem    string               `json:"receiving_system"`
 	Thermal            string               `json:"thermal"`
+	ThermalSIL         float64              `json:"thermal_limit_sil,omitempty"`
 	SIL                float64              `json:"loadability_sil"`
 	MW                 float64              `json:"loadability_mw"`
 	VoltageDropSIL     float64              `json:"voltage_drop_limit_sil"`
@@ -165,6 +166,7 @@ type loadabilityCurvePt struct {
 	LengthKm       float64 `json:"length_km"`
 	VoltageDropSIL float64 `json:"voltage_drop_sil"`
 	StabilitySIL   float64 `json:"stability_sil"`
+	ThermalSIL     float64 `json:"thermal_sil,omitempty"`
 	LoadabilitySIL float64 `json:"loadability_sil"`
 }
 
@@ -302,7 +304,12 @@ func computeLoading(st *study.Study, targetPU float64) (loadingResult, error) {
 		}
 		la.ReceivingSystem = fmt.Sprintf("[receiving]: %.0f MVA, %s", sc/1e6, xr)
 	}
-	la.Thermal = "not applied (no conductor rating in the study)"
+	la.Thermal = "not applied (no loading.thermal_rating_a in the study)"
+	if a := st.Loading.ThermalRating; a > 0 {
+		lim.Thermal = math.Sqrt(3) * v * a
+		la.Thermal = fmt.Sprintf("loading.thermal_rating_a %g A: %.0f MW at voltage_kv and unity power factor", a, lim.Thermal/1e6)
+		la.ThermalSIL = lim.Thermal / sil
+	}
 	this, err := propagation.Loadability(st.Line, omega, v, lim)
 	if err != nil {
 		return r, loadingKeyErr("line", err)
@@ -324,7 +331,7 @@ func computeLoading(st *study.Study, targetPU float64) (loadingResult, error) {
 	for _, c := range curve {
 		la.Curve = append(la.Curve, loadabilityCurvePt{
 			LengthKm: c.Length / 1e3, VoltageDropSIL: c.VoltageDrop / c.SIL,
-			StabilitySIL: c.Stability / c.SIL, LoadabilitySIL: c.Loadability / c.SIL,
+			StabilitySIL: c.Stability / c.SIL, ThermalSIL: c.Thermal / c.SIL, LoadabilitySIL: c.Loadability / c.SIL,
 		})
 	}
 	r.curve = la.Curve
@@ -357,10 +364,17 @@ func loadingPlots(r loadingResult) []*plot.Plot {
 		d.LengthKm = append(d.LengthKm, c.LengthKm)
 		d.VoltageDropSIL = append(d.VoltageDropSIL, c.VoltageDropSIL)
 		d.StabilitySIL = append(d.StabilitySIL, c.StabilitySIL)
+		if c.ThermalSIL > 0 {
+			d.ThermalSIL = append(d.ThermalSIL, c.ThermalSIL)
+		}
 		d.LoadabilitySIL = append(d.LoadabilitySIL, c.LoadabilitySIL)
 	}
 	d.ThisKm, d.ThisSIL = r.LengthKm, r.Loadability.SIL
-	d.Note = fmt.Sprintf("%.0f kV, %g Hz; 5 %% drop, 30 %% margin; no thermal limit", r.VoltageKV, r.FrequencyHz)
+	thermal := "no thermal limit"
+	if r.Loadability.ThermalSIL > 0 {
+		thermal = fmt.Sprintf("thermal limit %.2f SIL", r.Loadability.ThermalSIL)
+	}
+	d.Note = fmt.Sprintf("%.0f kV, %g Hz; 5 %% drop, 30 %% margin; %s", r.VoltageKV, r.FrequencyHz, thermal)
 	return []*plot.Plot{
 		report.LoadingProfilePlot(profiles, r.LengthKm),
 		report.LoadingReactivePlot(q),

@@ -6,6 +6,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
@@ -152,5 +153,64 @@ func TestLoadingCommand(t *testing.T) {
 	}
 	if fi, err := os.Stat(png); err != nil || fi.Size() < 1000 {
 		t.Errorf("plot not written: %v", err)
+	}
+}
+
+// [loading] thermal_rating_a gives the thermal limit sqrt(3)·V·I (the conductor
+// rating as power at unity power factor, common practice, no source) and is
+// validated like every key.
+func TestLoadingThermalRating(t *testing.T) {
+	t.Parallel()
+	base, err := os.ReadFile(filepath.Join("..", "..", "testdata", "loading_study.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	write := func(name, extra string) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, append(append([]byte{}, base...), extra...), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	good := write("rated.toml", "\n[loading]\nthermal_rating_a = 800\n")
+	var stdout, stderr bytes.Buffer
+	if code := run([]string{"loading", good, "--json"}, &stdout, &stderr); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr.String())
+	}
+	var doc struct {
+		SILMW       float64 `json:"sil_mw"`
+		VoltageKV   float64 `json:"voltage_kv"`
+		Loadability struct {
+			ThermalSIL float64 `json:"thermal_limit_sil"`
+			SIL        float64 `json:"loadability_sil"`
+			Curve      []struct {
+				ThermalSIL     float64 `json:"thermal_sil"`
+				LoadabilitySIL float64 `json:"loadability_sil"`
+			} `json:"curve"`
+		} `json:"loadability"`
+	}
+	if err := json.Unmarshal(stdout.Bytes(), &doc); err != nil {
+		t.Fatal(err)
+	}
+	want := math.Sqrt(3) * doc.VoltageKV * 800 / 1e3 / doc.SILMW // MW over MW
+	if math.Abs(doc.Loadability.ThermalSIL-want) > 1e-9*want {
+		t.Errorf("thermal limit %.6g SIL, want sqrt(3)·V·I/SIL = %.6g", doc.Loadability.ThermalSIL, want)
+	}
+	for _, c := range doc.Loadability.Curve {
+		if c.LoadabilitySIL > c.ThermalSIL*(1+1e-12) {
+			t.Errorf("loadability %.4g SIL above the thermal limit %.4g", c.LoadabilitySIL, c.ThermalSIL)
+		}
+	}
+	for _, tc := range []struct{ extra, want string }{
+		{"\n[loading]\nthermal_rating_a = -5\n", "loading.thermal_rating_a: must be > 0"},
+		{"\n[loading]\nthermal_rating = 800\n", `loading.thermal_rating: unknown key (did you mean "thermal_rating_a"?)`},
+	} {
+		p := write("bad.toml", tc.extra)
+		stdout.Reset()
+		stderr.Reset()
+		if code := run([]string{"loading", p}, &stdout, &stderr); code != 2 || !strings.Contains(stderr.String(), tc.want) || stdout.Len() != 0 {
+			t.Errorf("%q: exit %d, stderr %q, want exit 2 with %q", tc.extra, code, stderr.String(), tc.want)
+		}
 	}
 }

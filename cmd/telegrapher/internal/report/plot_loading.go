@@ -39,7 +39,8 @@ type LoadabilityData struct {
 	LengthKm       []float64
 	VoltageDropSIL []float64 // voltage-drop limit, multiples of SIL
 	StabilitySIL   []float64 // stability-margin limit, multiples of SIL
-	LoadabilitySIL []float64 // the smaller of the two
+	ThermalSIL     []float64 // thermal limit, multiples of SIL; nil = none
+	LoadabilitySIL []float64 // the smallest of the limits
 	ThisKm         float64   // the line under study
 	ThisSIL        float64   // its loadability
 	Note           string    // assumptions, one line, for the caption
@@ -173,6 +174,11 @@ func LoadabilityPlot(d LoadabilityData) *plot.Plot {
 	p.Legend.Add("loadability", env)
 	p.Legend.Add("voltage-drop limit (5 %)", vd)
 	p.Legend.Add("stability limit (30 % margin)", st)
+	if len(d.ThermalSIL) > 0 {
+		th := ldLine(ldXY(d.LengthKm, d.ThermalSIL), ldRed, vg.Points(1.2), true)
+		p.Add(th)
+		p.Legend.Add("thermal limit (rating)", th)
+	}
 	if d.ThisKm > 0 && d.ThisSIL > 0 {
 		sc, err := plotter.NewScatter(plotter.XYs{{X: d.ThisKm, Y: d.ThisSIL}})
 		if err != nil {

@@ -25,6 +25,7 @@ type Study struct {
 	Scan      ScanSettings
 	Energise  EnergiseSettings
 	Switching SwitchingSettings
+	Loading   LoadingSettings
 
 	// Understood lists what the loader read, in file order, for `check`.
 	Understood []Entry
