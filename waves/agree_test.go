@@ -97,18 +97,7 @@ func TestMethodsAgreeSections(t *testing.T) {
 		{Length: 20e3, Constants: propagation.RLGC{L: 0.4e-6, C: 210e-12}},
 	}}.Energising()
 	e := stepSettings(8e-3, 2e-6)
-	lat, d, err := Lattice(n, e, LatticeOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	lap, err := Laplace(n, e, LaplaceOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	ber, err := Bergeron(n, e, BergeronOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	lat, ber, lap, d := threeMethods(t, n, e)
 	// Wavefronts arrive at every combination of section transits: compare the
 	// plateaus only where no wavefront passed within the gap.
 	fronts := map[int]bool{}
@@ -224,18 +213,7 @@ func TestEnergyBalance(t *testing.T) {
 	rs := 100.0
 	n := testNetwork(0, rs, 0)
 	e := stepSettings(40*testTau, testTau/100)
-	lat, _, err := Lattice(n, e, LatticeOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	ber, err := Bergeron(n, e, BergeronOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	lap, err := Laplace(n, e, LaplaceOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	lat, ber, lap, _ := threeMethods(t, n, e)
 	cl := testC * testLength
 	for _, w := range []*Waveform{lat, ber, lap} {
 		// Rectangle rule; the first interval takes sample 1, since sample 0 sits on

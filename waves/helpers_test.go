@@ -80,3 +80,20 @@ func readRef(t *testing.T, path string) refWave {
 	}
 	return r
 }
+
+// threeMethods runs the lattice, Bergeron and Laplace methods on the same network and
+// settings, each with its default options, failing the test on any error.
+func threeMethods(t *testing.T, n freqscan.Network, e Energisation) (lat, ber, lap *Waveform, d *LatticeDiagram) {
+	t.Helper()
+	lat, d, err := Lattice(n, e, LatticeOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if ber, err = Bergeron(n, e, BergeronOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	if lap, err = Laplace(n, e, LaplaceOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	return lat, ber, lap, d
+}

@@ -45,18 +45,7 @@ func TestTrappedChargeThreePU(t *testing.T) {
 	e := stepSettings(4*testTau, testTau/100)
 	e.TrappedPU = -1
 	n := testNetwork(0, 0, 0)
-	lat, _, err := Lattice(n, e, LatticeOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	ber, err := Bergeron(n, e, BergeronOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	lap, err := Laplace(n, e, LaplaceOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	lat, ber, lap, _ := threeMethods(t, n, e)
 	for _, c := range []struct {
 		w   *Waveform
 		tol float64

@@ -118,18 +118,7 @@ func TestFirstArrivalThroughJunction(t *testing.T) {
 	z1, z2 := math.Sqrt(secOverhead.L/secOverhead.C), math.Sqrt(secCable.L/secCable.C)
 	tau1, tau2 := 100e3*math.Sqrt(secOverhead.L*secOverhead.C), 10e3*math.Sqrt(secCable.L*secCable.C)
 	want := 2 * z1 / (rs + z1) * 2 * z2 / (z1 + z2)
-	lat, _, err := Lattice(n, e, LatticeOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	ber, err := Bergeron(n, e, BergeronOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	lap, err := Laplace(n, e, LaplaceOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	lat, ber, lap, _ := threeMethods(t, n, e)
 	for _, w := range []*Waveform{lat, ber, lap} {
 		tol := map[string]float64{"lattice": latTol, "bergeron": berTol, "laplace": laplaceTol}[w.Method]
 		// before the arrival, and on the plateau up to the first cable echo (τ1 + 3τ2)
@@ -155,18 +144,7 @@ func TestMethodsAgreeTwoSections(t *testing.T) {
 	} {
 		t.Run(e.Excitation.String(), func(t *testing.T) {
 			t.Parallel()
-			lat, d, err := Lattice(n, e, LatticeOptions{})
-			if err != nil {
-				t.Fatal(err)
-			}
-			ber, err := Bergeron(n, e, BergeronOptions{})
-			if err != nil {
-				t.Fatal(err)
-			}
-			lap, err := Laplace(n, e, LaplaceOptions{})
-			if err != nil {
-				t.Fatal(err)
-			}
+			lat, ber, lap, d := threeMethods(t, n, e)
 			// samples within a few steps of a front passing the compared point
 			near := func(x float64) map[int]bool {
 				m := map[int]bool{}
