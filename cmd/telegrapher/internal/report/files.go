@@ -90,20 +90,10 @@ func RenderStacked(plots []*plot.Plot, w, h vg.Length, format string) ([]byte, e
 	if len(plots) == 0 {
 		return nil, fmt.Errorf("report: no plots to render")
 	}
-	total := h * vg.Length(len(plots))
-	var c vg.CanvasWriterTo
-	switch format {
-	case "png":
-		c = vgimg.PngCanvas{Canvas: vgimg.NewWith(vgimg.UseWH(w, total), vgimg.UseDPI(96))}
-	case "svg":
-		c = vgsvg.New(w, total)
-	default:
-		return nil, fmt.Errorf("report: unknown plot format %q", format)
+	c, dc, err := whitePage(w, h*vg.Length(len(plots)), format, 96)
+	if err != nil {
+		return nil, err
 	}
-	// A white page below the panels, for PNG viewers with dark backgrounds.
-	dc := draw.New(c)
-	dc.SetColor(color.White)
-	dc.Fill(dc.Rectangle.Path())
 	rows := make([][]*plot.Plot, len(plots))
 	for i, p := range plots {
 		rows[i] = []*plot.Plot{p}
@@ -114,6 +104,29 @@ func RenderStacked(plots []*plot.Plot, w, h vg.Length, format string) ([]byte, e
 	for i, p := range plots {
 		p.Draw(cs[i][0])
 	}
+	return canvasBytes(c)
+}
+
+// whitePage returns a canvas of w by h in "png" (at dpi) or "svg", painted white (for
+// PNG viewers with dark backgrounds), and its drawing area.
+func whitePage(w, h vg.Length, format string, dpi int) (vg.CanvasWriterTo, draw.Canvas, error) {
+	var c vg.CanvasWriterTo
+	switch format {
+	case "png":
+		c = vgimg.PngCanvas{Canvas: vgimg.NewWith(vgimg.UseWH(w, h), vgimg.UseDPI(dpi))}
+	case "svg":
+		c = vgsvg.New(w, h)
+	default:
+		return nil, draw.Canvas{}, fmt.Errorf("report: unknown plot format %q", format)
+	}
+	dc := draw.New(c)
+	dc.SetColor(color.White)
+	dc.Fill(dc.Rectangle.Path())
+	return c, dc, nil
+}
+
+// canvasBytes writes a finished canvas out as bytes.
+func canvasBytes(c vg.CanvasWriterTo) ([]byte, error) {
 	var buf bytes.Buffer
 	if _, err := c.WriteTo(&buf); err != nil {
 		return nil, err

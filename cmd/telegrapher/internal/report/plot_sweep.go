@@ -1,7 +1,6 @@
 package report
 
 import (
-	"bytes"
 	"fmt"
 	"image/color"
 	"math"
@@ -10,8 +9,6 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
-	"gonum.org/v1/plot/vg/vgimg"
-	"gonum.org/v1/plot/vg/vgsvg"
 )
 
 // SweepSequence is one sequence's per-length constants over a frequency sweep, in the
@@ -148,19 +145,11 @@ func RenderSweep(d SweepData, format string) ([]byte, error) {
 	}
 	const rows, cols = 3, 2
 	w, h := 28*vg.Centimeter, 30*vg.Centimeter
-	var c vg.CanvasWriterTo
-	switch format {
-	case "png":
-		c = vgimg.PngCanvas{Canvas: vgimg.NewWith(vgimg.UseWH(w, h), vgimg.UseDPI(110))}
-	case "svg":
-		c = vgsvg.New(w, h)
-	default:
-		return nil, fmt.Errorf("sweep plot: unknown format %q", format)
+	c, dc, err := whitePage(w, h, format, 110)
+	if err != nil {
+		return nil, err
 	}
-	dc := draw.New(c)
-	// White background and a title band.
-	dc.SetColor(color.White)
-	dc.Fill(dc.Rectangle.Path())
+	// A title band.
 	titleH := vg.Length(0)
 	if d.Title != "" {
 		titleH = vg.Points(26)
@@ -197,9 +186,5 @@ func RenderSweep(d SweepData, format string) ([]byte, error) {
 			grid[r][k].Draw(canvases[r][k])
 		}
 	}
-	var buf bytes.Buffer
-	if _, err := c.WriteTo(&buf); err != nil {
-		return nil, err
-	}
-	return buf.Bytes(), nil
+	return canvasBytes(c)
 }
