@@ -90,8 +90,10 @@ func walk(v reflect.Value, path string, overflow, nan *[]string) (any, error) {
 	if !v.IsValid() {
 		return nil, nil
 	}
-	if m, ok := v.Interface().(json.Marshaler); ok && v.Kind() != reflect.Pointer {
-		return m, nil
+	if v.CanInterface() && v.Kind() != reflect.Pointer {
+		if m, ok := v.Interface().(json.Marshaler); ok {
+			return m, nil
+		}
 	}
 	switch v.Kind() {
 	case reflect.Pointer, reflect.Interface:
@@ -136,7 +138,11 @@ func walk(v reflect.Value, path string, overflow, nan *[]string) (any, error) {
 		keys := v.MapKeys()
 		names := make([]string, len(keys))
 		for i, k := range keys {
-			names[i] = fmt.Sprint(k.Interface())
+			if k.Kind() == reflect.String {
+				names[i] = k.String()
+			} else {
+				names[i] = fmt.Sprint(k)
+			}
 		}
 		order := make([]int, len(keys))
 		for i := range order {
@@ -161,7 +167,7 @@ func walk(v reflect.Value, path string, overflow, nan *[]string) (any, error) {
 		o := &object{}
 		for i := 0; i < t.NumField(); i++ {
 			f := t.Field(i)
-			if !f.IsExported() {
+			if !f.IsExported() && !f.Anonymous {
 				continue
 			}
 			name, omitEmpty := f.Name, false
@@ -179,6 +185,18 @@ func walk(v reflect.Value, path string, overflow, nan *[]string) (any, error) {
 			}
 			fv := v.Field(i)
 			if omitEmpty && fv.IsZero() {
+				continue
+			}
+			if f.Anonymous && f.Tag.Get("json") == "" && fv.Kind() == reflect.Struct {
+				// An embedded struct's fields belong to this object, as in encoding/json.
+				e, err := walk(fv, path, overflow, nan)
+				if err != nil {
+					return nil, err
+				}
+				if inner, ok := e.(*object); ok {
+					o.keys = append(o.keys, inner.keys...)
+					o.vals = append(o.vals, inner.vals...)
+				}
 				continue
 			}
 			e, err := walk(fv, join(name), overflow, nan)

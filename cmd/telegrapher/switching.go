@@ -136,19 +136,8 @@ type switchingWorst struct {
 // the study as given (with its arresters, if any); WithoutArresters repeats them for
 // the same shots without arresters when the study has some.
 type switchingResult struct {
-	Shots        int          `json:"shots"`
-	U2PU         float64      `json:"u2_pu"`
-	UtPU         float64      `json:"ut_pu"`
-	U2KV         float64      `json:"u2_kv"`
-	UtKV         float64      `json:"ut_kv"`
-	U2FitPU      float64      `json:"u2_fit_pu"`
-	CaseU2PU     float64      `json:"case_u2_pu"`
-	CaseUtPU     float64      `json:"case_ut_pu"`
-	MaxPU        float64      `json:"max_pu"`
-	MeanPU       float64      `json:"mean_pu"`
-	SigmaPU      float64      `json:"sigma_pu"`
-	PhasePeaksPU [][3]float64 `json:"phase_peaks_pu"`
-	MarginPct    *float64     `json:"margin_pct,omitempty"`
+	Shots int `json:"shots"`
+	switchingFigures
 
 	Title           string  `json:"title,omitempty"`
 	Seed            int64   `json:"seed"`
@@ -164,22 +153,18 @@ type switchingResult struct {
 	// MarginArresterPct is the margin of the deterministic approach of IEC 60071-2 with
 	// arresters, siwl / (ks·Kcd·Ups) − 1 (Kcd from the figure), beside the contract's.
 	MarginArresterPct *float64            `json:"margin_arrester_pct,omitempty"`
-	Unprotected       bool                `json:"unprotected"`
 	Arresters         []switchingArrester `json:"arresters,omitempty"`
 	WithoutArresters  *switchingFigures   `json:"without_arresters,omitempty"`
-	CaseU2KV          float64             `json:"case_u2_kv"`
-	MaxKV             float64             `json:"max_kv"`
 	TimeStepUs        float64             `json:"time_step_us"`
 	ModalEvalHz       float64             `json:"modal_constants_at_hz"`
 	WorstShot         switchingWorst      `json:"worst_shot"`
 	Notes             []string            `json:"notes"`
 	Caution           string              `json:"caution"`
 
-	// Figures is the study as given; Bare the shots without arresters (the same as
-	// Figures when the study has none).
-	Figures *switchingFigures     `json:"-"`
-	Bare    *switchingFigures     `json:"-"`
-	Worst   *waves.ThreePhaseWave `json:"-"` // the worst shot's waveforms, pu of BaseEMFKV
+	// The embedded figures are the study as given; Bare the shots without arresters
+	// (the same figures when the study has none).
+	Bare  *switchingFigures     `json:"-"`
+	Worst *waves.ThreePhaseWave `json:"-"` // the worst shot's waveforms, pu of BaseEMFKV
 }
 
 // switchingApplicable returns nil when the study can run the switching study, or an
@@ -299,13 +284,8 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int)) (
 		}
 		res.WithoutArresters = fBare
 	}
-	res.Figures, res.Bare = f, fBare
+	res.switchingFigures, res.Bare = *f, fBare
 	res.Shots = set.Shots
-	res.U2PU, res.UtPU, res.U2KV, res.UtKV = f.U2PU, f.UtPU, f.U2KV, f.UtKV
-	res.U2FitPU, res.CaseU2PU, res.CaseUtPU = f.U2FitPU, f.CaseU2PU, f.CaseUtPU
-	res.MaxPU, res.MeanPU, res.SigmaPU = f.MaxPU, f.MeanPU, f.SigmaPU
-	res.PhasePeaksPU, res.MarginPct = f.PhasePeaksPU, f.MarginPct
-	res.CaseU2KV, res.MaxKV, res.Unprotected = f.CaseU2KV, f.MaxKV, f.Unprotected
 	res.Title, res.Seed = st.Title, set.Seed
 	res.BaseIECKV, res.BaseEMFKV, res.UsKV = baseIEC/1e3, net.EMFPeak/1e3, st.Us/1e3
 	res.SIWLKV, res.Ks, res.Kcd = set.SIWL/1e3, set.Ks, set.Kcd
@@ -406,9 +386,9 @@ func switchingPlots(r *switchingResult) []*plot.Plot {
 	var samples []report.SwitchingSample
 	if r.WithoutArresters != nil {
 		samples = append(samples, switchingSample(r.WithoutArresters, "without arresters (unprotected)"))
-		samples = append(samples, switchingSample(r.Figures, "with arresters"))
+		samples = append(samples, switchingSample(&r.switchingFigures, "with arresters"))
 	} else {
-		samples = append(samples, switchingSample(r.Figures, "phase peaks (unprotected)"))
+		samples = append(samples, switchingSample(&r.switchingFigures, "phase peaks (unprotected)"))
 	}
 	title := fmt.Sprintf("Statistical switching, %d shots: absolute phase peaks at the open end", r.Shots)
 	plots := []*plot.Plot{report.SwitchingDistributionPlot(samples, title)}
@@ -441,10 +421,10 @@ func printSwitching(w io.Writer, r *switchingResult) {
 	}
 	fmt.Fprintf(w, "Statistical switching: %d shots, seed %d, time step %.3g µs\n", r.Shots, r.Seed, r.TimeStepUs)
 	fmt.Fprintf(w, "Base: IEC 60071-1 Us*sqrt(2)/sqrt(3) = %.1f kV (EMF base %.1f kV)\n\n", r.BaseIECKV, r.BaseEMFKV)
-	cols := []*switchingFigures{r.Figures}
+	cols := []*switchingFigures{&r.switchingFigures}
 	heads := []string{"unprotected"}
 	if r.WithoutArresters != nil {
-		cols = []*switchingFigures{r.WithoutArresters, r.Figures}
+		cols = []*switchingFigures{r.WithoutArresters, &r.switchingFigures}
 		heads = []string{"no arresters", "with arresters"}
 	}
 	fmt.Fprintf(w, "%-32s", "")
