@@ -42,7 +42,9 @@ the whole cascade. --json writes the same as one JSON document.`,
 			sweep := fs.Bool("sweep", false, "also list the constants over frequency, 1 Hz to 1 MHz")
 			plotPath := fs.String("plot", "", "with --sweep: write the sweep plot to `FILE` (.png or .svg)")
 			return func(args []string) error {
-				if *atHz != 0 && !(*atHz > 0 && *atHz <= maxAtHz) {
+				atGiven := false
+				fs.Visit(func(f *flag.Flag) { atGiven = atGiven || f.Name == "at-hz" })
+				if atGiven && !(*atHz > 0 && *atHz <= maxAtHz) {
 					return usagef("telegrapher constants: --at-hz must be > 0 and at most %g, got %g", maxAtHz, *atHz)
 				}
 				if *plotPath != "" && !*sweep {

@@ -53,8 +53,9 @@ Last, the loadability against length by the analytical method of Dunlop, Gutman 
 Marchenko (1979), after St. Clair (1953): the smaller of a 5 % voltage-drop limit (unity
 power factor at the receiving end) and a 30 % steady-state stability margin (ends at
 1.0 and 0.95 pu, terminal systems from [source] and [receiving] short_circuit_mva and
-x_over_r, 50 kA where absent as in the paper). No thermal limit is applied. The line
-under study is placed on the curve (lines of its make, scaled in length).
+x_over_r, 50 kA where absent as in the paper). A thermal limit, sqrt(3)·V·I, joins the
+curve only when [loading] thermal_rating_a is given; without it none is applied. The
+line under study is placed on the curve (lines of its make, scaled in length).
 
 --plot F writes one figure (PNG or SVG by extension) with three panels: voltage
 profiles for a few loadings, reactive power against loading, and the loadability curve.`,

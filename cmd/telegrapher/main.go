@@ -161,6 +161,14 @@ func help(args []string, stdout, stderr io.Writer) int {
 	if a, ok := aliases[name]; ok {
 		name = a
 	}
+	switch name {
+	case "help":
+		fmt.Fprint(stdout, "usage: telegrapher help [COMMAND]\n\nWithout COMMAND, lists the commands; with one, prints its usage, what it does and its flags.\n")
+		return 0
+	case "version":
+		fmt.Fprint(stdout, "usage: telegrapher version\n\nPrints the version of this build (set at build time; \"dev\" for a build from source).\n")
+		return 0
+	}
 	c, ok := commands[name]
 	if !ok {
 		fmt.Fprintf(stderr, "telegrapher help: unknown command %q%s\n", args[0], suggestCommand(args[0]))

@@ -329,10 +329,10 @@ func (ld *Loader) scan(t *Table) {
 	sc.BackgroundPct = ld.harmonicTable(t, "background_pct")
 	sc.PlanningPct = ld.harmonicTable(t, "planning_pct")
 	if sc.BackgroundPct != nil {
-		note("background_pct", fmt.Sprint(sc.BackgroundPct), true)
+		note("background_pct", harmonicList(sc.BackgroundPct, "%"), true)
 	}
 	if sc.PlanningPct != nil {
-		note("planning_pct", fmt.Sprint(sc.PlanningPct), true)
+		note("planning_pct", harmonicList(sc.PlanningPct, "%"), true)
 	}
 	if r, ok := t.Floats("short_circuit_mva_range"); ok {
 		if len(r) != 2 {
