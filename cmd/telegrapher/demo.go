@@ -56,7 +56,7 @@ overhead sections with an 8 km river cable crossing near the receiving end.`,
 				if err != nil {
 					return fmt.Errorf("internal error: the built-in study does not load: %v", err)
 				}
-				doc, err := writeReport(st, *out, *force)
+				doc, err := writeReportStatus(st, *out, *force, newStatusLine(stderr))
 				if err != nil {
 					return err
 				}

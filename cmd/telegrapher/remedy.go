@@ -14,7 +14,7 @@ package main
 //	                                          target; report.RemedyResistorPlot: u2 against
 //	                                          the pre-insertion resistor)
 //	printRemedy(w, r)                         the text summary
-//	remedyReportPart(st)                      the report's "remedies" section (with the
+//	remedyReportPart(st, status)              the report's "remedies" section (with the
 //	                                          plots for the report to write), ok false
 //	                                          when the study has no [targets]
 //
@@ -25,10 +25,7 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strings"
-	"sync"
-	"time"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
@@ -76,7 +73,7 @@ harmonics marked; u2 against the pre-insertion resistor).`,
 				if err != nil {
 					return err
 				}
-				res, err := computeRemedyProgress(st, remedyProgressBar(stderr))
+				res, err := computeRemedyProgress(st, newStatusLine(stderr))
 				if err != nil {
 					return err
 				}
@@ -144,6 +141,9 @@ type remedyResult struct {
 	Before   remedyFigures `json:"before"`
 	After    remedyFigures `json:"after"`
 	Binding  string        `json:"binding,omitempty"`
+	// Infeasible lists, when no change meets every target, the targets that cannot be
+	// met; Changes is then the cheapest change meeting all the others.
+	Infeasible []remedyInfeasible `json:"infeasible,omitempty"`
 	// MarginsLeft is, per target, how far the result is inside it, in the target's
 	// unit (limit - value for a maximum, value - limit for a minimum; < 0 = missed).
 	MarginsLeft     map[string]float64 `json:"margins_left"`
@@ -151,9 +151,12 @@ type remedyResult struct {
 	CostWeights     remedyCostWeights  `json:"cost_weights"`
 	Targets         remedyTargetsJSON  `json:"targets"`
 	CandidatesTried int                `json:"candidates_tried"`
-	SwitchingRuns   int                `json:"switching_runs"`
-	Notes           []string           `json:"notes"`
-	Caution         string             `json:"caution"`
+	// CandidatesByStage splits CandidatesTried by the stage of the search that
+	// evaluated them (the stages the status line shows), in order of first use.
+	CandidatesByStage []remedyStageCount `json:"candidates_by_stage"`
+	SwitchingRuns     int                `json:"switching_runs"`
+	Notes             []string           `json:"notes"`
+	Caution           string             `json:"caution"`
 
 	// For the plots.
 	frequencyHz float64
@@ -173,19 +176,17 @@ type remedyResult struct {
 // computeRemedy searches st's levers for the cheapest change meeting its targets.
 func computeRemedy(st *study.Study) (remedyResult, error) { return computeRemedyProgress(st, nil) }
 
-func computeRemedyProgress(st *study.Study, progress func(done, total int)) (remedyResult, error) {
+func computeRemedyProgress(st *study.Study, status *statusLine) (remedyResult, error) {
 	var res remedyResult
 	spec := st.Remedy()
 	if !spec.Present {
 		return res, usagef("%s: targets: the study has no [targets]; give e.g. [targets] max_open_end_pu = 1.05 and [levers] reactor_mvar_receiving = [0, 300]", st.File)
 	}
-	rs, err := newRemedySearch(st, progress)
+	rs, err := newRemedySearch(st, status)
 	if err != nil {
 		return res, err
 	}
-	if progress != nil {
-		defer progress(-1, 0)
-	}
+	defer status.Clear()
 	tg, lv := spec.Targets, spec.Levers
 	res.Title, res.Caution = st.Title, Caution
 	res.CostWeights = remedyCostWeights{remedyCostPerMvar, remedyCostReactorBay, remedyCostPreinsertion, remedyCostControlled, remedyCostArresters}
@@ -193,6 +194,7 @@ func computeRemedyProgress(st *study.Study, progress func(done, total int)) (rem
 		MaxU2PU: optF(tg.HasU2, tg.U2PU), MinMarginPct: optF(tg.HasMargin, tg.MarginPct)}
 
 	full := func(c remedyCandidate) (remedyEval, remedyFigures, error) {
+		rs.setStage("full evaluations (the study as given, the proposal)")
 		e, err := rs.evalAll(c)
 		if err != nil {
 			return e, remedyFigures{}, err
@@ -210,40 +212,26 @@ func computeRemedyProgress(st *study.Study, progress func(done, total int)) (rem
 	var chosen remedyEval
 	feasible := false
 	capped := false
-	switch {
-	case before.violation == 0:
+	if before.violation == 0 {
 		chosen, feasible = before, true
 		res.Notes = append(res.Notes, "the study as given meets every target: no change is needed")
-	default:
-		keep, closest, err := rs.reactorStage()
+	} else {
+		chosen, feasible, capped, err = rs.search()
 		if err != nil {
 			return res, err
 		}
-		switch {
-		case len(keep) == 0:
-			chosen = closest
-			if tg.Switching() {
-				// The closest reactors with the most protective switching levers.
-				c := closest.cand
-				c.Controlled = lv.Controlled
-				if len(lv.ArrestersV) > 0 {
-					c.ArresterV = lv.ArrestersV[0]
-				}
-				if lv.Preinsertion != nil {
-					if c.Preinsertion, err = rs.bestResistor(c); err != nil {
-						return res, err
-					}
-				}
-				chosen = remedyEval{cand: c}
-			}
-		case !tg.Switching():
-			chosen, feasible = keep[0], true
-		default:
-			best, ok, cp, err := rs.switchingStage(keep)
+		if !feasible && !capped {
+			// Which targets no change within the levers can meet, and the cheapest
+			// change that meets all the others.
+			var alt remedyEval
+			var others bool
+			res.Infeasible, alt, others, err = rs.separate()
 			if err != nil {
 				return res, err
 			}
-			chosen, feasible, capped = best, ok, cp
+			if others {
+				chosen = alt
+			}
 		}
 	}
 	// Round the proposal to what a study file would say (0.1 Mvar, 1 ohm) when it
@@ -278,6 +266,9 @@ func computeRemedyProgress(st *study.Study, progress func(done, total int)) (rem
 	res.After, res.Feasible = af, feasible
 	if !feasible {
 		res.Binding = after.binding
+		if len(res.Infeasible) > 0 {
+			res.Binding = res.Infeasible[0].Target
+		}
 		if res.Binding == "" {
 			res.Binding = before.binding
 		}
@@ -285,7 +276,7 @@ func computeRemedyProgress(st *study.Study, progress func(done, total int)) (rem
 	res.Cost = c.cost()
 	res.Changes = changesJSON(c, lv)
 	res.MarginsLeft = marginsLeft(tg, after.figs)
-	res.CandidatesTried, res.SwitchingRuns = rs.evals, rs.runs
+	res.CandidatesTried, res.SwitchingRuns, res.CandidatesByStage = rs.evals, rs.runs, rs.merged()
 	if capped {
 		res.Notes = append(res.Notes, fmt.Sprintf("the search stopped after %d statistical switching runs: the closest case found is shown", remedyMaxSwitching))
 	}
@@ -439,13 +430,23 @@ func printRemedy(w io.Writer, r *remedyResult) {
 	if r.Feasible {
 		fmt.Fprintf(w, "Remedy: every target met, cost %.1f units\n", r.Cost)
 	} else {
-		fmt.Fprintf(w, "Remedy: no change within the levers meets every target; closest case shown (cost %.1f units); binding target: %s\n", r.Cost, r.Binding)
+		fmt.Fprintf(w, "Remedy: no change within the levers meets every target; binding target: %s\n", r.Binding)
+		for _, x := range r.Infeasible {
+			fmt.Fprintln(w, "  "+infeasibleWords(x))
+		}
 	}
 	ch := remedyChangeWords(r.Changes)
 	if len(ch) == 0 {
 		ch = []string{"none"}
 	}
-	fmt.Fprintln(w, "\nChanges:")
+	switch {
+	case r.Feasible:
+		fmt.Fprintln(w, "\nChanges:")
+	case len(r.Infeasible) > 0:
+		fmt.Fprintf(w, "\nChanges, the cheapest meeting every other target (cost %.1f units):\n", r.Cost)
+	default:
+		fmt.Fprintf(w, "\nChanges, the closest case found (cost %.1f units):\n", r.Cost)
+	}
 	for _, s := range ch {
 		fmt.Fprintln(w, "  "+s)
 	}
@@ -480,42 +481,15 @@ func printRemedy(w io.Writer, r *remedyResult) {
 	row("first resonance", "", fr(r.Before.FirstResonanceHz), fr(r.After.FirstResonanceHz), nil, "harmonic")
 	fmt.Fprintf(w, "\nCost units: reactor %g per end + %g per Mvar, pre-insertion resistor %g, controlled closing %g, arresters %g\n",
 		r.CostWeights.ReactorPerEnd, r.CostWeights.ReactorPerMvar, r.CostWeights.Preinsertion, r.CostWeights.Controlled, r.CostWeights.Arresters)
-	fmt.Fprintf(w, "Candidates evaluated: %d (statistical switching runs: %d)\n\n", r.CandidatesTried, r.SwitchingRuns)
+	var parts []string
+	for _, b := range r.CandidatesByStage {
+		parts = append(parts, fmt.Sprintf("%d %s", b.Candidates, b.Stage))
+	}
+	fmt.Fprintf(w, "Candidates evaluated: %d (%s); statistical switching runs: %d\n\n", r.CandidatesTried, strings.Join(parts, ", "), r.SwitchingRuns)
 	for _, n := range r.Notes {
 		fmt.Fprintln(w, "Note: "+strings.TrimSpace(n))
 	}
 	fmt.Fprintln(w, "\n"+Caution)
-}
-
-// remedyProgressBar returns a progress callback drawing the search's progress (stage
-// by stage: candidates evaluated of the stage's total) on stderr when it is a
-// terminal, or nil. done < 0 clears the line.
-func remedyProgressBar(stderr io.Writer) func(done, total int) {
-	f, ok := stderr.(*os.File)
-	if !ok {
-		return nil
-	}
-	info, err := f.Stat()
-	if err != nil || info.Mode()&os.ModeCharDevice == 0 {
-		return nil
-	}
-	var mu sync.Mutex
-	var last time.Time
-	return func(done, total int) {
-		mu.Lock()
-		defer mu.Unlock()
-		if done < 0 {
-			fmt.Fprint(f, "\r\033[K")
-			return
-		}
-		if done < total && time.Since(last) < 100*time.Millisecond {
-			return
-		}
-		last = time.Now()
-		const width = 40
-		n := min(done*width/max(total, 1), width)
-		fmt.Fprintf(f, "\r[%s%s] %d/%d candidates", strings.Repeat("#", n), strings.Repeat(".", width-n), done, total)
-	}
 }
 
 // remedyFigure is a plot of the remedies section, for the report to write and inline.
@@ -526,11 +500,11 @@ type remedyFigure struct {
 
 // remedyReportPart returns the report's "remedies" section of st and its plots; ok is
 // false when st has no [targets] (the report then has no such section).
-func remedyReportPart(st *study.Study) (sec report.Section, figs []remedyFigure, ok bool, err error) {
+func remedyReportPart(st *study.Study, status *statusLine) (sec report.Section, figs []remedyFigure, ok bool, err error) {
 	if !st.Remedy().Present {
 		return sec, nil, false, nil
 	}
-	r, err := computeRemedy(st)
+	r, err := computeRemedyProgress(st, status)
 	if err != nil {
 		return sec, nil, true, err
 	}
@@ -546,7 +520,19 @@ func remedyReportPart(st *study.Study) (sec report.Section, figs []remedyFigure,
 		sec.Reading = fmt.Sprintf("the study as given misses a target; cheapest change meeting every target (cost %.1f units): %s", r.Cost, strings.Join(changes, "; "))
 	default:
 		sec.Verdict = report.Flagged
-		sec.Reading = fmt.Sprintf("no change within the levers meets every target; binding: %s; closest case: %s", r.Binding, strings.Join(changes, "; "))
+		if len(changes) == 0 {
+			changes = []string{"none"}
+		}
+		var why []string
+		for _, x := range r.Infeasible {
+			why = append(why, infeasibleWords(x))
+		}
+		if len(why) > 0 {
+			sec.Reading = fmt.Sprintf("no change within the levers meets every target: %s; cheapest change meeting every other target (cost %.1f units): %s",
+				strings.Join(why, "; "), r.Cost, strings.Join(changes, "; "))
+		} else {
+			sec.Reading = fmt.Sprintf("no change within the levers meets every target; binding: %s; closest case: %s", r.Binding, strings.Join(changes, "; "))
+		}
 	}
 	fig := func(name string, b, a *float64, unit string, key string) {
 		if b == nil || a == nil {
@@ -609,4 +595,28 @@ func remedyChangeWords(c remedyChanges) []string {
 		ch = append(ch, fmt.Sprintf("surge arresters rated %.0f kV at both line ends", *c.ArrestersKV))
 	}
 	return ch
+}
+
+// infeasibleWords says why a target cannot be met: "max_u2_pu = 1.05 cannot be met
+// within the levers (the best reached is 1.32, by: pre-insertion resistor 412 ohm)".
+func infeasibleWords(x remedyInfeasible) string {
+	if len(x.ConflictsWith) > 0 {
+		return fmt.Sprintf("%s = %.4g cannot be met together with %s", x.Target, x.Limit, strings.Join(x.ConflictsWith, ", "))
+	}
+	s := fmt.Sprintf("%s = %.4g cannot be met within the levers", x.Target, x.Limit)
+	if x.Reachable != nil {
+		with := remedyChangeWords(x.With)
+		if len(with) == 0 {
+			with = []string{"no change"}
+		}
+		v := fmt.Sprintf("%.4g", *x.Reachable)
+		if math.IsInf(*x.Reachable, 0) {
+			v = "unbounded"
+		}
+		s += fmt.Sprintf(" (the best reached is %s, by: %s)", v, strings.Join(with, "; "))
+	}
+	if x.Capped {
+		s += fmt.Sprintf("; the search stopped at its cap of %d statistical switching runs", remedyMaxSwitching)
+	}
+	return s
 }

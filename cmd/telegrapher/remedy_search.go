@@ -40,8 +40,11 @@ package main
 //     is found once per reactor pair by a grid of remedyPIRGrid values over its range
 //     refined by golden-section search on u2.
 //
-// Where nothing meets the targets, the closest candidate (least worst relative
-// violation) is reported with the target that binds (the one it misses most).
+// Where nothing meets the targets together, separate finds the targets no change
+// within the levers meets even alone (each searched on its own, with the best value
+// it reaches), and the search runs again for the cheapest change meeting all the
+// others. Where every target can be met alone but not all together, the target
+// whose removal gives the cheapest change meeting the rest is named.
 
 import (
 	"errors"
@@ -129,19 +132,36 @@ type remedySearch struct {
 	omega    float64
 	modal    waves.ModalLine
 	hasModal bool
-	runs     int // statistical switching runs made
-	evals    int // candidates evaluated
-	progress func(done, total int)
+	runs     int         // statistical switching runs made
+	runs0    int         // runs made before the search under way (the cap counts from here)
+	evals    int         // candidates evaluated
+	status   *statusLine // progress on a terminal; nil draws nothing
+	stage    string      // the stage under way, for byStage
+	byStage  []remedyStageCount
 
 	pirSamples map[[2]float64][]remedyPIRSample // u2 against resistor value, per reactor pair
+}
+
+// remedyStageCount is how many candidates one stage of the search evaluated.
+type remedyStageCount struct {
+	Stage      string `json:"stage"`
+	Candidates int    `json:"candidates"`
+}
+
+// setStage names the stage under way (for the count by stage and the status line).
+func (rs *remedySearch) setStage(name string) {
+	if rs.stage != name {
+		rs.stage = name
+		rs.status.Stage("remedy: " + name)
+	}
 }
 
 // remedyPIRSample is one point of u2 against the pre-insertion resistor.
 type remedyPIRSample struct{ Ohm, U2 float64 }
 
 // newRemedySearch prepares a search of st.
-func newRemedySearch(st *study.Study, progress func(done, total int)) (*remedySearch, error) {
-	rs := &remedySearch{st: st, spec: st.Remedy(), omega: 2 * math.Pi * st.Frequency, progress: progress,
+func newRemedySearch(st *study.Study, status *statusLine) (*remedySearch, error) {
+	rs := &remedySearch{st: st, spec: st.Remedy(), omega: 2 * math.Pi * st.Frequency, status: status,
 		pirSamples: map[[2]float64][]remedyPIRSample{}}
 	sc := st.Scan
 	if !(sc.FMin > 0 && sc.FMax > sc.FMin) || sc.Points < 2 {
@@ -302,6 +322,10 @@ func (rs *remedySearch) evalFreq(c remedyCandidate) (remedyFigs, error) {
 		f.Gain, f.FirstResonanceHz = remedyWatchedGain(cst, rs.freqs)
 	}
 	rs.evals++
+	if n := len(rs.byStage); n == 0 || rs.byStage[n-1].Stage != rs.stage {
+		rs.byStage = append(rs.byStage, remedyStageCount{Stage: rs.stage})
+	}
+	rs.byStage[len(rs.byStage)-1].Candidates++
 	return f, nil
 }
 
@@ -373,6 +397,7 @@ func (rs *remedySearch) reactorStage() (keep []remedyEval, closest remedyEval, e
 	total := len(ls) * len(lr)
 	grid := make([][]remedyEval, len(ls))
 	closest.violation = math.Inf(1)
+	rs.setStage("reactor pairs")
 	var feasible []remedyEval
 	for i, s := range ls {
 		grid[i] = make([]remedyEval, len(lr))
@@ -387,9 +412,7 @@ func (rs *remedySearch) reactorStage() (keep []remedyEval, closest remedyEval, e
 			if e.violation < closest.violation || (e.violation == closest.violation && c.cost() < closest.cand.cost()) {
 				closest = e
 			}
-			if rs.progress != nil {
-				rs.progress(i*len(lr)+j+1, total)
-			}
+			rs.status.Count(i*len(lr)+j+1, total, "pairs")
 		}
 	}
 	tg := rs.spec.Targets
@@ -468,6 +491,7 @@ func (rs *remedySearch) lower(e remedyEval, r *study.Range, prev float64, sendin
 		x := rs.judge(c, f)
 		return x, x.violation == 0, nil
 	}
+	rs.setStage("reactor ratings refined")
 	lo, hi := prev, get(e.cand)
 	if prev == 0 {
 		if r.Min > 0 {
@@ -626,10 +650,11 @@ func (rs *remedySearch) switchingStage(reactors []remedyEval) (best remedyEval, 
 		}
 	}
 	sort.SliceStable(trials, func(a, b int) bool { return trials[a].cost < trials[b].cost })
+	rs.setStage("switching combinations")
 	resistor := map[[2]float64]float64{}
 	best.violation = math.Inf(1)
 	for i, t := range trials {
-		if rs.runs >= remedyMaxSwitching {
+		if rs.runs-rs.runs0 >= remedyMaxSwitching {
 			return best, false, true, nil
 		}
 		c := t.r.cand
@@ -649,9 +674,7 @@ func (rs *remedySearch) switchingStage(reactors []remedyEval) (best remedyEval, 
 		if err != nil {
 			return best, false, false, err
 		}
-		if rs.progress != nil {
-			rs.progress(i+1, len(trials))
-		}
+		rs.status.Count(i+1, len(trials), "combinations")
 		if e.violation == 0 {
 			return e, true, false, nil
 		}
@@ -660,4 +683,167 @@ func (rs *remedySearch) switchingStage(reactors []remedyEval) (best remedyEval, 
 		}
 	}
 	return best, false, false, nil
+}
+
+// search runs the two stages for the targets in rs.spec and returns the cheapest
+// candidate meeting them all (feasible), or the closest one found; capped reports
+// that the cap on statistical switching runs ended the search.
+func (rs *remedySearch) search() (chosen remedyEval, feasible, capped bool, err error) {
+	rs.runs0 = rs.runs
+	tg, lv := rs.spec.Targets, rs.spec.Levers
+	keep, closest, err := rs.reactorStage()
+	if err != nil {
+		return chosen, false, false, err
+	}
+	switch {
+	case len(keep) == 0:
+		chosen = closest
+		if tg.Switching() {
+			// The closest reactors with the most protective switching levers.
+			c := closest.cand
+			c.Controlled = lv.Controlled
+			if len(lv.ArrestersV) > 0 {
+				c.ArresterV = lv.ArrestersV[0]
+			}
+			if lv.Preinsertion != nil {
+				if c.Preinsertion, err = rs.bestResistor(c); err != nil {
+					return chosen, false, false, err
+				}
+			}
+			chosen = remedyEval{cand: c}
+		}
+		return chosen, false, false, nil
+	case !tg.Switching():
+		return keep[0], true, false, nil
+	default:
+		return rs.switchingStage(keep)
+	}
+}
+
+// remedyInfeasible is a target no change within the levers meets: alone (Reachable
+// is then the best value of its measure the search found, With the change giving
+// it), or together with the others (ConflictsWith lists them).
+type remedyInfeasible struct {
+	Target        string        `json:"target"`
+	Limit         float64       `json:"limit"`
+	Reachable     *float64      `json:"reachable,omitempty"`
+	With          remedyChanges `json:"with"`
+	ConflictsWith []string      `json:"conflicts_with,omitempty"`
+	Capped        bool          `json:"search_capped,omitempty"`
+}
+
+// targetKeys lists the keys of the targets present in tg, in the [targets] order.
+func targetKeys(tg study.Targets) []string {
+	var k []string
+	for _, t := range []struct {
+		has bool
+		key string
+	}{{tg.HasOpenEnd, "max_open_end_pu"}, {tg.HasGainWatched, "max_gain_watched"}, {tg.HasU2, "max_u2_pu"}, {tg.HasMargin, "min_margin_pct"}} {
+		if t.has {
+			k = append(k, t.key)
+		}
+	}
+	return k
+}
+
+// keepTargets returns tg with only the targets for which keep(key) is true.
+func keepTargets(tg study.Targets, keep func(key string) bool) study.Targets {
+	tg.HasOpenEnd = tg.HasOpenEnd && keep("max_open_end_pu")
+	tg.HasGainWatched = tg.HasGainWatched && keep("max_gain_watched")
+	tg.HasU2 = tg.HasU2 && keep("max_u2_pu")
+	tg.HasMargin = tg.HasMargin && keep("min_margin_pct")
+	return tg
+}
+
+// targetFigure returns a target's limit and the candidate's value of its measure.
+func targetFigure(tg study.Targets, f remedyFigs, key string) (limit, value float64) {
+	switch key {
+	case "max_open_end_pu":
+		return tg.OpenEndPU, f.OpenEnd
+	case "max_gain_watched":
+		return tg.GainWatched, f.Gain
+	case "max_u2_pu":
+		return tg.U2PU, f.U2
+	default:
+		return tg.MarginPct, f.Margin
+	}
+}
+
+// separate is called when no change meets every target together. It returns the
+// targets no change within the levers meets even alone (each searched on its own) and
+// the cheapest change meeting all the other targets (ok false when none does). When
+// each target can be met alone, the one target whose removal gives the cheapest
+// change meeting the rest is returned as conflicting with them.
+func (rs *remedySearch) separate() (out []remedyInfeasible, alt remedyEval, ok bool, err error) {
+	all := rs.spec.Targets
+	defer func() { rs.spec.Targets = all }()
+	drop := map[string]bool{}
+	for _, k := range targetKeys(all) {
+		rs.spec.Targets = keepTargets(all, func(key string) bool { return key == k })
+		e, met, capped, err := rs.search()
+		if err != nil {
+			return nil, alt, false, err
+		}
+		if met {
+			continue
+		}
+		if e, err = rs.evalAll(e.cand); err != nil {
+			return nil, alt, false, err
+		}
+		limit, v := targetFigure(all, e.figs, k)
+		out = append(out, remedyInfeasible{Target: k, Limit: limit, Reachable: optF(true, v),
+			With: changesJSON(e.cand, rs.spec.Levers), Capped: capped})
+		drop[k] = true
+	}
+	if len(out) > 0 {
+		rest := keepTargets(all, func(key string) bool { return !drop[key] })
+		if !rest.Any() {
+			return out, remedyEval{}, true, nil // nothing else to meet: no change
+		}
+		rs.spec.Targets = rest
+		e, met, _, err := rs.search()
+		if err != nil || !met {
+			return out, alt, false, err
+		}
+		return out, e, true, nil
+	}
+	// Every target can be met alone: drop the one whose removal costs least.
+	best, bestKey := remedyEval{}, ""
+	for _, k := range targetKeys(all) {
+		rs.spec.Targets = keepTargets(all, func(key string) bool { return key != k })
+		e, met, _, err := rs.search()
+		if err != nil {
+			return nil, alt, false, err
+		}
+		if met && (bestKey == "" || e.cand.cost() < best.cand.cost()) {
+			best, bestKey = e, k
+		}
+	}
+	if bestKey == "" {
+		return nil, alt, false, nil
+	}
+	limit, _ := targetFigure(all, best.figs, bestKey)
+	var with []string
+	for _, k := range targetKeys(all) {
+		if k != bestKey {
+			with = append(with, k)
+		}
+	}
+	return []remedyInfeasible{{Target: bestKey, Limit: limit, With: changesJSON(best.cand, rs.spec.Levers), ConflictsWith: with}}, best, true, nil
+}
+
+// merged returns the counts by stage with each stage once, in order of first use (a
+// stage may run again, as in separate).
+func (rs *remedySearch) merged() []remedyStageCount {
+	var out []remedyStageCount
+	at := map[string]int{}
+	for _, b := range rs.byStage {
+		if i, ok := at[b.Stage]; ok {
+			out[i].Candidates += b.Candidates
+			continue
+		}
+		at[b.Stage] = len(out)
+		out = append(out, b)
+	}
+	return out
 }

@@ -189,8 +189,9 @@ const (
 
 // reportRun is one report being built.
 type reportRun struct {
-	st  *study.Study
-	out *outputFolder
+	st     *study.Study
+	out    *outputFolder
+	status *statusLine // progress on a terminal; nil draws nothing
 }
 
 // figure draws p into the folder as name (SVG) and returns it for the HTML.
@@ -275,7 +276,7 @@ func (rr *reportRun) switchingSection() (report.Section, error) {
 	if err := switchingApplicable(rr.st); err != nil {
 		return notRunSection(id, title, err), nil
 	}
-	r, err := computeSwitching(rr.st)
+	r, err := computeSwitchingProgress(rr.st, rr.status.Counter("shots"))
 	if err != nil {
 		if cannotRun(err) {
 			return notRunSection(id, title, err), nil
@@ -456,7 +457,7 @@ wrote it (it holds a .telegrapher-report marker) or is empty; anything else need
 				if err != nil {
 					return err
 				}
-				doc, err := writeReport(st, *out, *force)
+				doc, err := writeReportStatus(st, *out, *force, newStatusLine(stderr))
 				if err != nil {
 					return err
 				}
@@ -470,6 +471,12 @@ wrote it (it holds a .telegrapher-report marker) or is empty; anything else need
 // writeReport runs every part of st and writes the report folder out (see the report
 // command). Nothing is left behind on failure.
 func writeReport(st *study.Study, out string, force bool) (*report.Document, error) {
+	return writeReportStatus(st, out, force, nil)
+}
+
+// writeReportStatus is writeReport drawing each part's progress on status (nil: none).
+func writeReportStatus(st *study.Study, out string, force bool, status *statusLine) (*report.Document, error) {
+	defer status.Clear()
 	folder, err := newOutputFolder(out, force)
 	if err != nil {
 		return nil, err
@@ -482,7 +489,7 @@ func writeReport(st *study.Study, out string, force bool) (*report.Document, err
 	}()
 	stop := discardOnInterrupt(folder)
 	defer stop()
-	rr := &reportRun{st: st, out: folder}
+	rr := &reportRun{st: st, out: folder, status: status}
 	doc, err := rr.build()
 	if err != nil {
 		return nil, err
@@ -526,18 +533,25 @@ func discardOnInterrupt(o *outputFolder) (stop func()) {
 	}
 }
 
+// reportPart is one part of the report: its name for the status line and the
+// function that builds its section.
+type reportPart struct {
+	name  string
+	build func(*reportRun) (report.Section, error)
+}
+
 // reportParts are the report's parts after the inputs, in order.
-var reportParts = []func(*reportRun) (report.Section, error){
-	(*reportRun).constantsSection,
-	(*reportRun).scanSection,
-	(*reportRun).energiseSection,
-	(*reportRun).loadingSection,
-	(*reportRun).switchingSection,
+var reportParts = []reportPart{
+	{"line constants", (*reportRun).constantsSection},
+	{"harmonic scan", (*reportRun).scanSection},
+	{"energisation", (*reportRun).energiseSection},
+	{"loading", (*reportRun).loadingSection},
+	{"statistical switching", (*reportRun).switchingSection},
 }
 
 // remedySection is the remedies part, present only when the study has [targets].
 func (rr *reportRun) remedySection() (report.Section, bool, error) {
-	sec, figs, ok, err := remedyReportPart(rr.st)
+	sec, figs, ok, err := remedyReportPart(rr.st, rr.status)
 	if !ok || err != nil {
 		return sec, ok, err
 	}
@@ -560,13 +574,15 @@ func (rr *reportRun) build() (*report.Document, error) {
 		Caution:   Caution,
 	}
 	doc.Sections = append(doc.Sections, inputsSection(rr.st))
-	for _, part := range reportParts {
-		sec, err := part(rr)
+	for i, part := range reportParts {
+		rr.status.Stage(fmt.Sprintf("report %d/%d: %s", i+1, len(reportParts)+1, part.name))
+		sec, err := part.build(rr)
 		if err != nil {
 			return nil, err
 		}
 		doc.Sections = append(doc.Sections, sec)
 	}
+	rr.status.Stage(fmt.Sprintf("report %d/%d: remedies", len(reportParts)+1, len(reportParts)+1))
 	if sec, ok, err := rr.remedySection(); err != nil {
 		return nil, err
 	} else if ok {

@@ -397,8 +397,8 @@ func TestReportRefusesForeignFolder(t *testing.T) {
 func TestReportFailureLeavesNothing(t *testing.T) {
 	saved := reportParts
 	defer func() { reportParts = saved }()
-	reportParts = append(append([]func(*reportRun) (report.Section, error){}, saved[:2]...),
-		func(*reportRun) (report.Section, error) { return report.Section{}, errors.New("deliberate failure") })
+	reportParts = append(append([]reportPart{}, saved[:2]...),
+		reportPart{"failing part", func(*reportRun) (report.Section, error) { return report.Section{}, errors.New("deliberate failure") }})
 	parent := t.TempDir()
 	out := filepath.Join(parent, "rep")
 	var stdout, stderr bytes.Buffer
@@ -417,8 +417,8 @@ func TestReportFailureLeavesNothing(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	reportParts = append(append([]func(*reportRun) (report.Section, error){}, saved...),
-		func(*reportRun) (report.Section, error) { return report.Section{}, errors.New("deliberate failure") })
+	reportParts = append(append([]reportPart{}, saved...),
+		reportPart{"failing part", func(*reportRun) (report.Section, error) { return report.Section{}, errors.New("deliberate failure") }})
 	if code := run([]string{"demo", "--out", out}, &stdout, &stderr); code != 1 {
 		t.Fatalf("exit %d, want 1", code)
 	}
