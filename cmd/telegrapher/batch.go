@@ -10,8 +10,8 @@ package main
 //	screenInventory(...)       every row, in parallel over the cores (batch_run.go)
 //	batchTable(results)        the summary table, worst first
 //
-// The output folder follows the report's rules (outputFolder): batch.csv and
-// batch.html, moved into place only when complete.
+// The output folder follows the report's rules (outputFolder, outfolder.go): batch.csv
+// and batch.html, moved into place only when complete, in a folder of its own kind.
 
 import (
 	"errors"
@@ -54,12 +54,15 @@ peak / 2.0 and rise / 1.05; the table is sorted by it, so the lines that most ex
 screening level come first (severity > 1 means flagged).
 
 Rows are screened in parallel over the cores (--jobs); a progress bar is drawn on
-standard error when it is a terminal. DIR follows the rules of the report command:
-built beside, moved into place when complete, and an existing folder not written by
-telegrapher is replaced only with --force.`,
+standard error when it is a terminal. DIR follows the rules of the report command
+(telegrapher help report): built beside and moved in when complete; in a folder an
+earlier screening wrote only the files its marker lists are replaced; --force adds the
+files to a folder telegrapher did not write, removing nothing; a report's folder and a
+file given as DIR are refused, even with --force. DIR is checked before the screening
+starts.`,
 		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
 			out := fs.String("out", "", "write the summary into folder `DIR` (required)")
-			force := fs.Bool("force", false, "replace DIR even when it was not written by telegrapher")
+			force := fs.Bool("force", false, "write into DIR even if telegrapher did not make it (overwrites its own file names only)")
 			jobs := fs.Int("jobs", 0, "screen `N` lines at a time (0: one per core)")
 			return func(args []string) error {
 				const usage = "usage: telegrapher batch LINES.csv --out DIR [--force] [--jobs N]"
@@ -85,6 +88,14 @@ telegrapher is replaced only with --force.`,
 				if err != nil {
 					return err
 				}
+				// The folder first: a refusal comes before the screening, not after it.
+				folder, err := newOutputFolder(*out, kindBatch, *force)
+				if err != nil {
+					return err
+				}
+				defer folder.discard() // nothing to do once committed
+				stop := discardOnInterrupt(folder)
+				defer stop()
 				var progress func(int)
 				if isTerminal(stderr) {
 					progress = batchProgressBar(stderr, len(lines), "lines")
@@ -93,7 +104,7 @@ telegrapher is replaced only with --force.`,
 				if err != nil {
 					return err
 				}
-				if err := writeBatch(results, args[0], *out, *force); err != nil {
+				if err := writeBatch(results, args[0], folder); err != nil {
 					return err
 				}
 				printBatch(stdout, results, *out)
@@ -280,22 +291,12 @@ func batchView(results []batchResult) *report.Table {
 	return t
 }
 
-// writeBatch writes batch.csv and batch.html into the folder out.
-func writeBatch(results []batchResult, file, out string, force bool) error {
+// writeBatch writes batch.csv and batch.html into folder and commits it.
+func writeBatch(results []batchResult, file string, folder *outputFolder) error {
 	t, err := batchTable(results)
 	if err != nil {
 		return err
 	}
-	folder, err := newOutputFolder(out, force)
-	if err != nil {
-		return err
-	}
-	committed := false
-	defer func() {
-		if !committed {
-			folder.discard()
-		}
-	}()
 	flagged := 0
 	for _, r := range results {
 		if len(r.Flags) > 0 {
@@ -325,11 +326,7 @@ func writeBatch(results []batchResult, file, out string, force bool) error {
 	if err := folder.write("batch.html", page); err != nil {
 		return err
 	}
-	if err := folder.commit(); err != nil {
-		return err
-	}
-	committed = true
-	return nil
+	return folder.commit()
 }
 
 // printBatch prints the worst lines and where the table is.

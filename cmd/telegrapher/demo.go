@@ -37,12 +37,15 @@ study into ./telegrapher-demo, or --out DIR: an invented 400 kV, 50 Hz line of 3
 between two invented substations (Harrowmere and Calder Rise), fed from a 15 GVA system
 with X/R 12 and compensated by a 150 Mvar line-connected reactor at the receiving end,
 with zero-sequence data so every part runs. It then prints each part's reading and
-where to open the report. An earlier demo folder is replaced; a folder not written by
-telegrapher needs --force. With --cable the study is the built-in line in sections: two
-overhead sections with an 8 km river cable crossing near the receiving end.`,
+where to open the report. In an earlier demo or report folder only the files it lists
+in its marker are replaced (your own files there stay); a folder telegrapher did not
+write needs --force, which adds the report's files and removes nothing; a file or a
+batch folder is refused (see 'telegrapher help report'). With --cable the study is the
+built-in line in sections: two overhead sections with an 8 km river cable crossing
+near the receiving end.`,
 		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
 			out := fs.String("out", demoDir, "write the report into folder `DIR`")
-			force := fs.Bool("force", false, "replace DIR even when it was not written by telegrapher")
+			force := fs.Bool("force", false, "write into DIR even if telegrapher did not make it (overwrites its own file names only)")
 			cable := fs.Bool("cable", false, "the built-in line in sections with a cable crossing instead (demo_cable.toml)")
 			return func(args []string) error {
 				if len(args) != 0 {

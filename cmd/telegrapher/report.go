@@ -7,7 +7,7 @@ package main
 //	                                tests call it too
 //	(*reportRun).build()         -> the report.Document: the inputs, then reportParts
 //	                                in order, each writing its own files
-//	outputFolder                 -> the folder built beside the target and renamed into
+//	outputFolder (outfolder.go)  -> the folder built beside the target and moved into
 //	                                place when complete (batch uses it too)
 //
 // Each part calls the compute function and plot builders of its command (computeScan,
@@ -21,7 +21,6 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"io/fs"
 	"math"
 	"math/cmplx"
 	"os"
@@ -41,91 +40,6 @@ import (
 	"github.com/telegrapher/telegrapher/freqscan"
 )
 
-// reportMarker is the small file that marks a folder as written by telegrapher, so a
-// later run may replace it without --force.
-const reportMarker = ".telegrapher-report"
-
-// outputFolder is an output folder under construction. Files go into a temporary
-// sibling of the target folder; commit renames it into place only when every file is
-// written, so a failed or interrupted run never leaves a partial folder, and an
-// existing folder is replaced in one step.
-//
-// The target may be absent, an empty folder, or a folder an earlier run wrote (it
-// holds reportMarker); anything else is refused unless force is set.
-type outputFolder struct {
-	target string   // the folder the user named
-	tmp    string   // the temporary sibling being filled
-	made   []string // parent folders made for it, innermost first
-	files  []string
-}
-
-// newOutputFolder checks that target may be written (see outputFolder) and creates the
-// temporary sibling. Refusals are input errors (exit 2) naming the flag.
-func newOutputFolder(target string, force bool) (*outputFolder, error) {
-	if target == "" {
-		return nil, usagef("--out: an output folder is required")
-	}
-	target = filepath.Clean(target)
-	info, err := os.Stat(target)
-	switch {
-	case errors.Is(err, fs.ErrNotExist):
-	case err != nil:
-		return nil, fmt.Errorf("--out %s: %v", target, err)
-	case !info.IsDir():
-		if !force {
-			return nil, usagef("--out %s: exists and is not a folder; use --force to replace it", target)
-		}
-	default:
-		entries, err := os.ReadDir(target)
-		if err != nil {
-			return nil, fmt.Errorf("--out %s: %v", target, err)
-		}
-		if len(entries) > 0 && !force {
-			if _, err := os.Stat(filepath.Join(target, reportMarker)); err != nil {
-				return nil, usagef("--out %s: the folder exists and was not written by telegrapher; "+
-					"choose another folder, or use --force to replace it and everything in it", target)
-			}
-		}
-	}
-	// Parent folders that do not exist yet are made, and removed again on failure.
-	parent := filepath.Dir(target)
-	var made []string
-	for p := parent; ; p = filepath.Dir(p) {
-		if _, err := os.Stat(p); err == nil || filepath.Dir(p) == p {
-			break
-		}
-		made = append(made, p)
-	}
-	o := &outputFolder{target: target, made: made}
-	if err := os.MkdirAll(parent, 0o755); err != nil {
-		o.discard()
-		return nil, fmt.Errorf("--out %s: %v", target, err)
-	}
-	tmp, err := os.MkdirTemp(parent, "."+filepath.Base(target)+".tmp-")
-	if err != nil {
-		o.discard()
-		return nil, fmt.Errorf("--out %s: cannot create a folder beside it: %v", target, err)
-	}
-	o.tmp = tmp
-	if err := os.Chmod(tmp, 0o755); err != nil {
-		o.discard()
-		return nil, err
-	}
-	return o, nil
-}
-
-// write writes one file of the folder (a plain name, no separators), atomically.
-func (o *outputFolder) write(name string, data []byte) error {
-	if name == "" || strings.ContainsAny(name, `/\`) {
-		panic(fmt.Sprintf("telegrapher: output file name %q is not a plain name", name))
-	}
-	if err := report.WriteFileAtomic(filepath.Join(o.tmp, name), data); err != nil {
-		return fmt.Errorf("writing %s: %w", filepath.Join(o.target, name), err)
-	}
-	o.files = append(o.files, name)
-	return nil
-}
-
 // writePlot renders p as SVG at the given size into the folder and returns the SVG
 // bytes for inlining in the HTML report.
 func (o *outputFolder) writePlot(name string, p *plot.Plot, w, h vg.Length) ([]byte, error) {
@@ -139,45 +53,6 @@ func (o *outputFolder) writePlot(name string, p *plot.Plot, w, h vg.Length) ([]b
 // writeSVG writes an already rendered SVG figure into the folder and returns it.
 func (o *outputFolder) writeSVG(name string, svg []byte) ([]byte, error) {
 	return svg, o.write(name, svg)
-}
-
-// commit writes the marker and moves the folder into place, replacing an earlier one.
-// After an error nothing is left of the new folder and the old one is back in place.
-func (o *outputFolder) commit() error {
-	if err := o.write(reportMarker, []byte("written by telegrapher "+version+"; a later run may replace this folder\n")); err != nil {
-		o.discard()
-		return err
-	}
-	var old string
-	if _, err := os.Lstat(o.target); err == nil {
-		old = o.tmp + ".old"
-		if err := os.Rename(o.target, old); err != nil {
-			o.discard()
-			return fmt.Errorf("replacing %s: %v", o.target, err)
-		}
-	}
-	if err := os.Rename(o.tmp, o.target); err != nil {
-		if old != "" {
-			os.Rename(old, o.target)
-		}
-		o.discard()
-		return fmt.Errorf("moving the new folder to %s: %v", o.target, err)
-	}
-	if old != "" {
-		os.RemoveAll(old)
-	}
-	return nil
-}
-
-// discard removes the temporary folder and the parent folders newOutputFolder made;
-// the target is untouched.
-func (o *outputFolder) discard() {
-	if o.tmp != "" {
-		os.RemoveAll(o.tmp)
-	}
-	for _, p := range o.made {
-		os.Remove(p) // only if still empty
-	}
 }
 
 // Report plot size: wide enough for a frequency axis to 50 harmonics, read on a
@@ -442,13 +317,20 @@ Runs every part of the study and writes one folder:
 A part the study cannot run (switching without zero-sequence data, for example) says
 why in its section instead of failing the report.
 
-The folder is built beside DIR and moved into place only when complete, so a failed
-run leaves nothing behind. An existing DIR is replaced only when an earlier report
-wrote it (it holds a .telegrapher-report marker) or is empty; anything else needs
---force, which replaces the folder and everything in it.`,
+The files are built beside DIR and moved in only when all are written, so a failed or
+interrupted run changes nothing. telegrapher never deletes what it did not write:
+  - an absent or empty DIR is made;
+  - in a folder an earlier report wrote (its .telegrapher-report marker lists the
+    files it wrote) the new files replace those listed; files and folders you added
+    stay (one of yours with the name of a new file is refused unless --force);
+  - any other existing DIR is refused unless --force, which adds the report's files
+    to it, overwriting files of the same names and touching nothing else;
+  - a file given as DIR, and a batch screening's folder, are refused even with --force.
+Temporary folders .DIR.tmp-N a killed run left beside DIR are removed by the next run
+into the same folder once no running telegrapher holds them (see the README).`,
 		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
 			out := fs.String("out", "", "write the report into folder `DIR` (required)")
-			force := fs.Bool("force", false, "replace DIR even when it was not written by telegrapher")
+			force := fs.Bool("force", false, "write into DIR even if telegrapher did not make it (overwrites its own file names only)")
 			return func(args []string) error {
 				if *out == "" {
 					return usagef("telegrapher report: --out DIR is required\nusage: telegrapher report STUDY --out DIR [--force]")
@@ -477,16 +359,11 @@ func writeReport(st *study.Study, out string, force bool) (*report.Document, err
 // writeReportStatus is writeReport drawing each part's progress on status (nil: none).
 func writeReportStatus(st *study.Study, out string, force bool, status *statusLine) (*report.Document, error) {
 	defer status.Clear()
-	folder, err := newOutputFolder(out, force)
+	folder, err := newOutputFolder(out, kindReport, force)
 	if err != nil {
 		return nil, err
 	}
-	committed := false
-	defer func() {
-		if !committed {
-			folder.discard()
-		}
-	}()
+	defer folder.discard() // nothing to do once committed
 	stop := discardOnInterrupt(folder)
 	defer stop()
 	rr := &reportRun{st: st, out: folder, status: status}
@@ -507,13 +384,13 @@ func writeReportStatus(st *study.Study, out string, force bool, status *statusLi
 	if err := folder.commit(); err != nil {
 		return nil, err
 	}
-	committed = true
 	return doc, nil
 }
 
 // discardOnInterrupt removes the folder under construction when the process is
 // interrupted (Ctrl-C, SIGTERM) and exits with status 130; the returned function ends
-// the watch.
+// the watch. An interrupt while the files are being moved into place waits for that
+// to finish (it is quick), so the target is never left half replaced.
 func discardOnInterrupt(o *outputFolder) (stop func()) {
 	ch := make(chan os.Signal, 1)
 	signal.Notify(ch, os.Interrupt, syscall.SIGTERM)
@@ -521,8 +398,11 @@ func discardOnInterrupt(o *outputFolder) (stop func()) {
 	go func() {
 		select {
 		case <-ch:
-			o.discard()
-			fmt.Fprintln(os.Stderr, "telegrapher: interrupted; no report written")
+			if o.discard() {
+				fmt.Fprintf(os.Stderr, "telegrapher: interrupted; nothing written to %s\n", o.target)
+			} else {
+				fmt.Fprintf(os.Stderr, "telegrapher: interrupted after %s was written\n", o.target)
+			}
 			os.Exit(130)
 		case <-done:
 		}

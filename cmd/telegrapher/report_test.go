@@ -34,112 +34,6 @@ func listDir(t *testing.T, dir string) []string {
 	return names
 }
 
-func TestOutputFolder(t *testing.T) {
-	t.Parallel()
-	type setup func(t *testing.T, target string)
-	none := func(*testing.T, string) {}
-	foreign := func(t *testing.T, target string) {
-		if err := os.MkdirAll(target, 0o755); err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(filepath.Join(target, "thesis.tex"), []byte("precious"), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	previous := func(t *testing.T, target string) {
-		foreign(t, target)
-		if err := os.WriteFile(filepath.Join(target, reportMarker), nil, 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	empty := func(t *testing.T, target string) {
-		if err := os.MkdirAll(target, 0o755); err != nil {
-			t.Fatal(err)
-		}
-	}
-	plainFile := func(t *testing.T, target string) {
-		if err := os.WriteFile(target, []byte("precious"), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	tests := []struct {
-		name    string
-		setup   setup
-		force   bool
-		fail    bool // the run fails after writing some files
-		refused bool
-		want    []string // the target's files afterwards
-	}{
-		{"new folder", none, false, false, false, []string{reportMarker, "a.txt"}},
-		{"empty folder", empty, false, false, false, []string{reportMarker, "a.txt"}},
-		{"foreign folder refused", foreign, false, false, true, []string{"thesis.tex"}},
-		{"foreign folder forced", foreign, true, false, false, []string{reportMarker, "a.txt"}},
-		{"previous report replaced", previous, false, false, false, []string{reportMarker, "a.txt"}},
-		{"plain file refused", plainFile, false, false, true, nil},
-		{"failed run, new folder", none, false, true, false, nil},
-		{"failed run, new parents", none, false, true, false, nil},
-		{"failed run keeps the previous report", previous, false, true, false, []string{reportMarker, "thesis.tex"}},
-	}
-	for _, tc := range tests {
-		t.Run(tc.name, func(t *testing.T) {
-			t.Parallel()
-			parent := t.TempDir()
-			target := filepath.Join(parent, "out")
-			if strings.Contains(tc.name, "new parents") {
-				target = filepath.Join(parent, "out", "a", "b")
-			}
-			tc.setup(t, target)
-			o, err := newOutputFolder(target, tc.force)
-			if tc.refused {
-				if err == nil {
-					t.Fatal("not refused")
-				}
-				if _, ok := err.(*usageError); !ok {
-					t.Errorf("refusal %T is not an input error", err)
-				}
-			} else {
-				if err != nil {
-					t.Fatal(err)
-				}
-				if err := o.write("a.txt", []byte("new")); err != nil {
-					t.Fatal(err)
-				}
-				if tc.fail {
-					o.discard()
-				} else if err := o.commit(); err != nil {
-					t.Fatal(err)
-				}
-			}
-			if strings.Contains(tc.name, "new parents") {
-				if got := listDir(t, parent); len(got) != 0 {
-					t.Errorf("parent folders left behind: %v", got)
-				}
-			}
-			// Nothing is left beside the target: no temporary or old folders.
-			for _, n := range listDir(t, parent) {
-				if n != "out" {
-					t.Errorf("left behind: %s", n)
-				}
-			}
-			if tc.want == nil {
-				if info, err := os.Stat(target); err == nil && info.IsDir() {
-					t.Errorf("target folder exists: %v", listDir(t, target))
-				}
-				return
-			}
-			got := listDir(t, target)
-			if len(got) != len(tc.want) {
-				t.Fatalf("target holds %v, want %v", got, tc.want)
-			}
-			for i := range got {
-				if got[i] != tc.want[i] {
-					t.Fatalf("target holds %v, want %v", got, tc.want)
-				}
-			}
-		})
-	}
-}
-
 // demoMade records that demoReport ran, for TestMain's clean-up.
 var demoMade atomic.Bool
 
@@ -363,7 +257,8 @@ func TestReportWithoutZeroSequence(t *testing.T) {
 }
 
 // TestReportRefusesForeignFolder: an existing folder not written by telegrapher is
-// left alone without --force (exit 2) and replaced with it.
+// left alone without --force (exit 2); with it the report is added and the user's
+// file stays.
 func TestReportRefusesForeignFolder(t *testing.T) {
 	t.Parallel()
 	out := filepath.Join(t.TempDir(), "notes")
@@ -388,6 +283,9 @@ func TestReportRefusesForeignFolder(t *testing.T) {
 	}
 	if _, err := os.Stat(filepath.Join(out, "report.html")); err != nil {
 		t.Error("--force did not write the report")
+	}
+	if b, err := os.ReadFile(filepath.Join(out, "notes.txt")); err != nil || string(b) != "mine" {
+		t.Errorf("--force lost the user's notes.txt (err %v)", err)
 	}
 }
 

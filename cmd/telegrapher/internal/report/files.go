@@ -5,8 +5,10 @@ package report
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"image/color"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
@@ -19,12 +21,24 @@ import (
 )
 
 // WriteFileAtomic writes data to path through a temporary file in the same folder,
-// renamed into place only when complete.
+// renamed into place only when complete. An error is an *fs.PathError naming path
+// (never the temporary file, a name the user did not give).
 func WriteFileAtomic(path string, data []byte) error {
+	fail := func(err error) error {
+		var pe *fs.PathError
+		var le *os.LinkError
+		switch {
+		case errors.As(err, &pe):
+			err = pe.Err
+		case errors.As(err, &le):
+			err = le.Err
+		}
+		return &fs.PathError{Op: "write", Path: path, Err: err}
+	}
 	dir := filepath.Dir(path)
 	f, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
 	if err != nil {
-		return err
+		return fail(err)
 	}
 	tmp := f.Name()
 	_, werr := f.Write(data)
@@ -40,7 +54,7 @@ func WriteFileAtomic(path string, data []byte) error {
 	}
 	if werr != nil {
 		os.Remove(tmp)
-		return werr
+		return fail(werr)
 	}
 	return nil
 }
