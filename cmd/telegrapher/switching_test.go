@@ -160,3 +160,36 @@ func TestSwitchingCommandErrors(t *testing.T) {
 		}
 	}
 }
+
+// A switching impulse withstand level in range I (us_kv <= 245) is refused by the
+// switching study only (IEC 60071-1 gives switching impulse levels for range II):
+// constants and scan run on the same file, switching exits 2 naming the key, and the
+// report writes its other sections with the switching one saying why it did not run.
+func TestSwitchingSIWLRangeIOnlySwitchingRefuses(t *testing.T) {
+	t.Parallel()
+	body := strings.NewReplacer("us_kv = 420", "us_kv = 245", "voltage_kv = 400", "voltage_kv = 230", "shots = 60", "shots = 4").Replace(switchingStudy)
+	path := writeSwitchingStudy(t, body)
+	for _, args := range [][]string{{"constants", path}, {"scan", path, "--json"}, {"check", path}} {
+		var out, errb bytes.Buffer
+		if code := run(args, &out, &errb); code != 0 {
+			t.Errorf("%v: exit %d, want 0 (%s)", args, code, errb.String())
+		}
+	}
+	var out, errb bytes.Buffer
+	if code := run([]string{"switching", path}, &out, &errb); code != 2 || !strings.Contains(errb.String(), "study.toml: switching.siwl_kv:") || out.Len() != 0 {
+		t.Errorf("switching: exit %d, stderr %q, stdout %d bytes; want exit 2 naming switching.siwl_kv, nothing on stdout", code, errb.String(), out.Len())
+	}
+	dir := filepath.Join(t.TempDir(), "rep")
+	out.Reset()
+	errb.Reset()
+	if code := run([]string{"report", path, "--out", dir}, &out, &errb); code != 0 {
+		t.Fatalf("report: exit %d: %s", code, errb.String())
+	}
+	page, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Contains(page, []byte("Not run for this study:</strong>")) || !bytes.Contains(page, []byte("switching.siwl_kv")) {
+		t.Error("the report's switching section does not say why it did not run")
+	}
+}

@@ -224,9 +224,8 @@ func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (Swi
 			o.HasKcd = given
 		}
 	}
-	if s.SIWL > 0 && us <= 245e3 {
-		return s, o, nil, swErrorf(file, path("siwl_kv"), "switching impulse withstand levels belong to range II (us_kv > 245); this study has us_kv = %g", us/1e3)
-	}
+	// siwl_kv with us_kv <= 245 (range I) is refused by the switching computation
+	// only, so the other commands run on the same file.
 	if s.TimeStep > 0 && (s.Duration+s.InsertTime)/s.TimeStep > waves.MaxSamples {
 		return s, o, nil, swErrorf(file, path("time_step_us"), "duration_ms / time_step_us gives %.4g samples, more than %d", (s.Duration+s.InsertTime)/s.TimeStep, waves.MaxSamples)
 	}

@@ -78,7 +78,6 @@ func TestParseSwitchingErrors(t *testing.T) {
 		{"zero duration", map[string]any{"duration_ms": 0.0}, 420e3, "switching.duration_ms: must be > 0"},
 		{"trapped length", map[string]any{"trapped_pu": []any{1.0}}, 420e3, "switching.trapped_pu: must be an array of three"},
 		{"trapped value", map[string]any{"trapped_pu": []any{1.0, "x", 0.0}}, 420e3, "switching.trapped_pu[1]"},
-		{"siwl range I", map[string]any{"siwl_kv": 850.0}, 245e3, "switching.siwl_kv: switching impulse withstand levels belong to range II"},
 		{"samples", map[string]any{"time_step_us": 0.001, "duration_ms": 20.0}, 420e3, "switching.time_step_us:"},
 		{"arrester end", map[string]any{"arrester": []map[string]any{{"at": "middle", "rated_kv": 336.0}}}, 420e3, "switching.arrester[0].at"},
 		{"arrester both", map[string]any{"arrester": []map[string]any{{"at": "sending", "rated_kv": 336.0, "vi_ka_kv": []any{}}}}, 420e3, "give exactly one of rated_kv and vi_ka_kv"},
@@ -112,5 +111,15 @@ func TestSwitchingOptionsAttach(t *testing.T) {
 	b.SetSwitchingOptions(SwitchingOptions{})
 	if a.SwitchingOptions().NeutralReactorOhm[1] != 300 {
 		t.Error("changing the copy's options changed the original's")
+	}
+}
+
+// siwl_kv in range I (us_kv <= 245) is read: only the switching computation refuses
+// it, so the file stays valid for every other command.
+func TestParseSwitchingSIWLRangeIRead(t *testing.T) {
+	t.Parallel()
+	s, _, _, err := ParseSwitching("s.toml", map[string]any{"siwl_kv": 850.0}, 50, 245e3)
+	if err != nil || s.SIWL != 850e3 {
+		t.Errorf("siwl_kv = 850 with us_kv = 245: %v, SIWL %g V", err, s.SIWL)
 	}
 }
