@@ -23,7 +23,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strings"
 	"sync"
 	"sync/atomic"
@@ -217,7 +216,7 @@ func computeSwitching(st *study.Study) (switchingResult, error) {
 	return computeSwitchingProgress(st, nil)
 }
 
-func computeSwitchingProgress(st *study.Study, progress func(done, total int)) (switchingResult, error) {
+func computeSwitchingProgress(st *study.Study, progress func(done, total int, pass string)) (switchingResult, error) {
 	var res switchingResult
 	if err := switchingApplicable(st); err != nil {
 		return res, err
@@ -233,14 +232,16 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int)) (
 		return res, usagef("%s: line: %v", st.File, err)
 	}
 	net, ws, arr := switchingSetup(st, ml)
-	runs := 1
-	if len(arr) > 0 {
-		runs = 2
-	}
+	// Progress counts shots, once per pass: the shots run a second time with the
+	// arresters when the study has them.
 	var done atomic.Int64
+	pass := ""
+	if len(arr) > 0 {
+		pass = "without arresters"
+	}
 	prog := func(int) {
 		if progress != nil {
-			progress(int(done.Add(1)), runs*set.Shots)
+			progress(int(done.Add(1)), set.Shots, pass)
 		}
 	}
 	toIEC := st.Voltage / st.Us
@@ -278,6 +279,8 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int)) (
 	sim, r, f := simBare, rBare, fBare
 	if len(arr) > 0 {
 		net.Arresters = arr
+		pass = "with arresters"
+		done.Store(0)
 		sim, r, f, err = run(net)
 		if err != nil {
 			return res, err
@@ -476,18 +479,21 @@ func printSwitching(w io.Writer, r *switchingResult) {
 
 // progressBar returns a progress callback drawing a bar on stderr when it is a
 // terminal, or nil.
-func progressBar(stderr io.Writer) func(done, total int) {
-	f, ok := stderr.(*os.File)
-	if !ok {
+func progressBar(stderr io.Writer) func(done, total int, pass string) {
+	if !isTerminal(stderr) {
 		return nil
 	}
-	info, err := f.Stat()
-	if err != nil || info.Mode()&os.ModeCharDevice == 0 {
-		return nil
-	}
+	return shotProgress(stderr)
+}
+
+// shotProgress returns a progress callback drawing done/total shots on w as a bar
+// redrawn in place (at most every 100 ms, and at the end of each pass), with the pass
+// ("without arresters", "with arresters") when the study runs its shots twice; the
+// line is cleared at the end of each pass.
+func shotProgress(w io.Writer) func(done, total int, pass string) {
 	var mu sync.Mutex
 	var last int64
-	return func(done, total int) {
+	return func(done, total int, pass string) {
 		mu.Lock()
 		defer mu.Unlock()
 		now := time.Now().UnixMilli()
@@ -496,10 +502,13 @@ func progressBar(stderr io.Writer) func(done, total int) {
 		}
 		last = now
 		const width = 40
-		n := done * width / total
-		fmt.Fprintf(f, "\r[%s%s] %d/%d shots", strings.Repeat("#", n), strings.Repeat(".", width-n), done, total)
+		n := done * width / max(total, 1)
+		if pass != "" {
+			pass = " (" + pass + ")"
+		}
+		fmt.Fprintf(w, "\r[%s%s] %d/%d shots%s", strings.Repeat("#", n), strings.Repeat(".", width-n), done, total, pass)
 		if done == total {
-			fmt.Fprint(f, "\r\033[K")
+			fmt.Fprint(w, "\r\033[K")
 		}
 	}
 }

@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 )
 
 // An invented 400 kV, 320 km study with zero-sequence constants and a receiving-end
@@ -191,5 +193,30 @@ func TestSwitchingSIWLRangeIOnlySwitchingRefuses(t *testing.T) {
 	}
 	if !bytes.Contains(page, []byte("Not run for this study:</strong>")) || !bytes.Contains(page, []byte("switching.siwl_kv")) {
 		t.Error("the report's switching section does not say why it did not run")
+	}
+}
+
+// The progress line counts shots: with arresters every shot is simulated twice (with
+// and without them), but the bar still runs to the study's number of shots, once per
+// pass, and says which pass it is on.
+func TestSwitchingProgressCountsShots(t *testing.T) {
+	t.Parallel()
+	body := strings.Replace(switchingStudy, "shots = 60", "shots = 6", 1) + "[[switching.arrester]]\nat = \"receiving\"\nrated_kv = 336\n"
+	st, err := study.Load(writeSwitchingStudy(t, body))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if _, err := computeSwitchingProgress(st, shotProgress(&buf)); err != nil {
+		t.Fatal(err)
+	}
+	text := buf.String()
+	for _, want := range []string{"6/6 shots (without arresters)", "6/6 shots (with arresters)"} {
+		if !strings.Contains(text, want) {
+			t.Errorf("progress lacks %q: %q", want, text)
+		}
+	}
+	if strings.Contains(text, "/12") || strings.Contains(text, "7/") {
+		t.Errorf("progress counts beyond the 6 shots: %q", text)
 	}
 }
