@@ -220,3 +220,72 @@ func TestSwitchingProgressCountsShots(t *testing.T) {
 		t.Errorf("progress counts beyond the 6 shots: %q", text)
 	}
 }
+
+// The case of issue 15 item 4: a 345 kV, 60 Hz, 250 km line (our own constants) with a
+// 75 Mvar line-connected reactor, reclosed on trapped charge -1, +1, -1 pu after the
+// default 300 ms dead time. The charge rings through the reactor (about 45 Hz) and
+// decays during the dead time; controlled closing, aiming each pole at the least
+// voltage across its contacts as it really is, brings u2 clearly below random
+// closing (aimed at a d.c. charge, before the dead time was modelled, it gave 3.80
+// against 4.20 pu).
+const reactor345 = `
+title = "345 kV line with a 75 Mvar line reactor, reclosing on trapped charge"
+frequency_hz = 60
+voltage_kv = 345
+us_kv = 362
+[line]
+length_km = 250
+r_ohm_per_km = 0.03
+l_mh_per_km = 1.0
+c_nf_per_km = 11.5
+r0_ohm_per_km = 0.3
+l0_mh_per_km = 3.2
+c0_nf_per_km = 7.5
+[source]
+short_circuit_mva = 12000
+x_over_r = 12
+[[shunt]]
+at = "receiving"
+connection = "line"
+mvar = 75
+q_factor = 300
+[switching]
+shots = 200
+seed = 1
+trapped_pu = [-1, 1, -1]
+`
+
+func TestSwitchingControlledOnRingingCharge(t *testing.T) {
+	t.Parallel()
+	// "Clearly below": at most 80 % of the random-closing u2 (common practice, no
+	// source: controlled closing is worth having when it cuts the overvoltage by a
+	// fifth or more); 200 shots give u2 to a few per cent.
+	const clearly = 0.8
+	u2 := map[bool]float64{}
+	for _, controlled := range []bool{false, true} {
+		body := reactor345
+		if controlled {
+			body += "controlled_closing = true\n"
+		}
+		st, err := study.Load(writeSwitchingStudy(t, body))
+		if err != nil {
+			t.Fatal(err)
+		}
+		res, err := computeSwitching(st)
+		if err != nil {
+			t.Fatal(err)
+		}
+		u2[controlled] = res.U2PU
+		var out bytes.Buffer
+		printSwitching(&out, &res)
+		for _, want := range []string{"Dead time 300 ms; trapped charge at the opening -1.000, +1.000, -1.000 pu", "at the mean closing instant: line voltage", "ringing through the line-connected reactors"} {
+			if !strings.Contains(out.String(), want) {
+				t.Errorf("controlled %v: output lacks %q", controlled, want)
+			}
+		}
+	}
+	t.Logf("u2 %.3f pu random, %.3f pu controlled", u2[false], u2[true])
+	if !(u2[true] <= clearly*u2[false]) {
+		t.Errorf("controlled closing u2 %.3f pu, random %.3f pu: not clearly below", u2[true], u2[false])
+	}
+}
