@@ -45,7 +45,17 @@ func init() {
 Closes a three-pole breaker on the open-ended three-phase line [switching] shots times,
 with the mean closing instant uniformly random over one cycle (or fixed by close_deg)
 and each pole scattered about it (pole_sigma_ms, normal truncated at 3 sigma), with
-trapped charge (trapped_pu) and an optional pre-insertion resistor. The line is
+trapped charge (trapped_pu) and an optional pre-insertion resistor.
+
+Reclosing: trapped_pu is each phase's line voltage at the opening, with zero current
+in the line and its reactors. Through the dead time (dead_time_ms, default 300 ms,
+from the opening to the mean closing instant; 0 = the charge held at the closing) the
+de-energised line is simulated by the same model: with line-connected reactors its
+charge rings at about 1/(2 pi sqrt(LC)) per mode and decays through their losses;
+without, it stays as d.c. Every shot starts from that state; the output gives the
+line voltages and reactor currents at the closing. With controlled_closing each pole
+aims at the least voltage across its contacts (EMF minus the ringing line side)
+within two cycles of the command. The line is
 transposed, in modal form (ground mode on the zero-sequence constants, two aerial modes
 on the positive-sequence ones); the source has positive- and zero-sequence R-L
 impedance ([source] x0_over_x1). It needs zero-sequence data: [line] r0/l0/c0 or a
@@ -57,7 +67,8 @@ base us_kv*sqrt(2)/sqrt(3), and in kV. With switching.siwl_kv the margin
 (siwl / (ks * kcd * u2_kv) - 1) * 100 is given. Without [[switching.arrester]] the
 results are unprotected overvoltages; with them, both are shown side by side.
 
-Own keys of [switching]: neutral_reactor_sending_ohm, neutral_reactor_receiving_ohm
+Own keys of [switching]: dead_time_ms, controlled_closing, controlled_sigma_ms,
+neutral_reactor_sending_ohm, neutral_reactor_receiving_ohm
 (neutral reactor of that end's line-connected reactors, reactance at frequency_hz), and
 [[switching.arrester]] with at = "sending"|"receiving" and rated_kv (a typical
 metal-oxide curve) or vi_ka_kv = [[kA, kV], ...].

@@ -284,8 +284,31 @@ func TestSwitchingControlledOnRingingCharge(t *testing.T) {
 			}
 		}
 	}
+	// The report's switching section gives the charge at the closing too.
+	dir := filepath.Join(t.TempDir(), "rep")
+	var out, errb bytes.Buffer
+	if code := run([]string{"report", writeSwitchingStudy(t, reactor345), "--out", dir}, &out, &errb); code != 0 {
+		t.Fatalf("report: exit %d: %s", code, errb.String())
+	}
+	if page, err := os.ReadFile(filepath.Join(dir, "report.html")); err != nil || !bytes.Contains(page, []byte("trapped charge at the closing, after the 300 ms dead time")) {
+		t.Errorf("the report does not give the trapped charge at the closing (%v)", err)
+	}
 	t.Logf("u2 %.3f pu random, %.3f pu controlled", u2[false], u2[true])
 	if !(u2[true] <= clearly*u2[false]) {
 		t.Errorf("controlled closing u2 %.3f pu, random %.3f pu: not clearly below", u2[true], u2[false])
+	}
+}
+
+// check lists the dead time, and help switching explains it.
+func TestSwitchingDeadTimeShown(t *testing.T) {
+	t.Parallel()
+	path := writeSwitchingStudy(t, switchingStudy)
+	var out, errb bytes.Buffer
+	if code := run([]string{"check", path}, &out, &errb); code != 0 || !strings.Contains(out.String(), "switching.dead_time_ms") || !strings.Contains(out.String(), "300 ms") {
+		t.Errorf("check: exit %d, output lacks switching.dead_time_ms = 300 ms:\n%s%s", code, out.String(), errb.String())
+	}
+	out.Reset()
+	if code := run([]string{"help", "switching"}, &out, &errb); code != 0 || !strings.Contains(out.String(), "dead_time_ms") {
+		t.Errorf("help switching: exit %d, lacks dead_time_ms", code)
 	}
 }
