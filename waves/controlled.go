@@ -5,7 +5,9 @@ import (
 	"math/rand/v2"
 )
 
-// ControlledShots returns the shots of controlled (point-on-wave) closing: each pole
+// ControlledShots returns the shots of controlled (point-on-wave) closing on a line
+// that holds its trapped charge at the closing (no dead time simulated; after a dead
+// time SwitchingSimulator.ControlledShots aims at the ringing line): each pole
 // aims at the instant its source EMF equals the line voltage at closing (the trapped
 // charge s.TrappedPU; 0 on an uncharged line, the EMF's voltage zero), so the voltage
 // across its contacts is zero, the first such instant after phase a's; each pole's
@@ -61,7 +63,11 @@ func ControlledShots(s SwitchingSettings, omega float64) []ShotSpec {
 // system frequency, where the contact voltage of an uncharged line or a line
 // holding d.c. charge has every point on wave; with a ringing line charge the best
 // instants are where the EMF and the ring-down are nearly in phase (the beat
-// minimum of the contact voltage).
+// minimum of the contact voltage). Waiting longer, toward the beat minimum, spreads
+// the poles apart, and the closed poles' coupling to the open ones then spoils the
+// later poles' aim: on the 345 kV, 75 Mvar reactor case of the tests (45 Hz ring on
+// 60 Hz, 15 Hz beat; 300 shots) u2 is 2.28 pu with one cycle, 2.03 with two, 2.14
+// with four.
 func controlWindow(omega float64) float64 { return controlCycles * 2 * math.Pi / omega }
 
 // controlCycles is controlWindow in cycles of the system frequency.
