@@ -226,3 +226,15 @@ func (b *modalBergeron) store(vs, vr, is, ir [3]float64) {
 	}
 	b.pos = (b.pos + 1) % b.size
 }
+
+// clone returns a deep copy of b.
+func (b *modalBergeron) clone() *modalBergeron {
+	c := *b
+	for e := 0; e < 2; e++ {
+		for m := 0; m < 3; m++ {
+			c.v[e][m] = append([]float64(nil), b.v[e][m]...)
+			c.i[e][m] = append([]float64(nil), b.i[e][m]...)
+		}
+	}
+	return &c
+}

@@ -16,6 +16,9 @@ import (
 // MaxShots is the largest number of shots a statistical switching study may take.
 const MaxShots = 100_000
 
+// MaxDeadTime is the longest dead time of a reclosing (s).
+const MaxDeadTime = 10.0
+
 // ThreePhase is the three-phase circuit of a switching study: a balanced source EMF of
 // peak EMFPeak behind its positive- and zero-sequence R-L impedance, the sending bus
 // with its bus-connected shunts, the three-pole breaker, the transposed line in modal
@@ -61,6 +64,10 @@ type SwitchingSettings struct {
 	// ControlledSigma (s, truncated at 3σ), instead of random closing.
 	Controlled      bool
 	ControlledSigma float64
+	// DeadTime is the dead time of a reclosing (s): from the line's opening, when it
+	// is left at TrappedPU with zero current in the line and its shunts, to the mean
+	// closing instant (deadtime.go). 0: the trapped voltages hold at the closing.
+	DeadTime float64
 }
 
 // ShotSpec is one shot's random draw: the phase a EMF angle at the mean closing
@@ -151,6 +158,8 @@ func (s SwitchingSettings) check() error {
 		return bad("time step must be >= 0, got %g s", s.TimeStep)
 	case !(s.ControlledSigma >= 0) || !fin(s.ControlledSigma) || s.ControlledSigma > 0.02:
 		return bad("controlled-closing scatter must be 0..20 ms, got %g s", s.ControlledSigma)
+	case !(s.DeadTime >= 0) || !fin(s.DeadTime) || s.DeadTime > MaxDeadTime:
+		return bad("dead time must be 0..%g s, got %g s", MaxDeadTime, s.DeadTime)
 	}
 	for k, v := range s.TrappedPU {
 		if !fin(v) || math.Abs(v) > 10 {
@@ -244,6 +253,7 @@ type SwitchingSimulator struct {
 	ideal    bool
 	topo     [27]*topology
 	curves   []*arresterCurve
+	ring     *ringDown // the dead time's ring-down; nil without trapped charge or dead time
 }
 
 // NewSwitchingSimulator checks the circuit and settings and prepares the nodal
@@ -368,6 +378,17 @@ func NewSwitchingSimulator(net ThreePhase, s SwitchingSettings) (*SwitchingSimul
 			return nil, err
 		}
 		sim.topo[code] = t
+	}
+	if s.DeadTime > 0 && s.TrappedPU != [3]float64{} {
+		// First contacts fall within [minT, maxT] of the mean closing instant.
+		minT, maxT := -3*s.PoleSigma, 3*s.PoleSigma
+		if s.Controlled {
+			minT, maxT = -3*s.ControlledSigma, controlWindow(net.Omega)+3*s.ControlledSigma
+		}
+		if (s.DeadTime+maxT)/dt > MaxSamples {
+			return nil, fmt.Errorf("%w: dead time / time step = %.4g exceeds %d samples", ErrSwitching, (s.DeadTime+maxT)/dt, MaxSamples)
+		}
+		sim.ring = newRingDown(sim, minT, maxT)
 	}
 	return sim, nil
 }
@@ -581,7 +602,8 @@ func invertDense(a [][]float64) ([]float64, error) {
 	return out, nil
 }
 
-// shotState is the mutable state of one shot.
+// shotState is the mutable state of one shot (or of the de-energised line during the
+// dead time).
 type shotState struct {
 	lines    []*modalBergeron
 	branches []swBranch
@@ -589,8 +611,205 @@ type shotState struct {
 	srcI     [3]float64 // modal source current into the bus
 	j        []float64  // injections, full nodes
 	rhs, vu  []float64
-	v        []float64 // node voltages
-	arrV     []float64 // arrester voltages of the last step (Newton start)
+	v        []float64       // node voltages
+	hist     [][2][3]float64 // line history currents of the current step
+}
+
+// clone returns a deep copy of st.
+func (st *shotState) clone() *shotState {
+	c := &shotState{srcU: st.srcU, srcI: st.srcI}
+	c.lines = make([]*modalBergeron, len(st.lines))
+	for i, ln := range st.lines {
+		c.lines[i] = ln.clone()
+	}
+	c.branches = append([]swBranch(nil), st.branches...)
+	c.j = make([]float64, len(st.j))
+	c.v = append([]float64(nil), st.v...)
+	c.hist = make([][2][3]float64, 0, len(st.lines))
+	return c
+}
+
+// openingState returns the state at the line's opening: the line charged to the
+// trapped voltages (V, phase to earth) with zero current in the line and in every
+// line-side shunt, the source side at rest.
+func (sim *SwitchingSimulator) openingState(trapped [3]float64) *shotState {
+	st := &shotState{}
+	for _, sec := range sim.net.Line.Sections {
+		st.lines = append(st.lines, newModalBergeron(sec, sim.dt, trapped))
+	}
+	st.branches = append([]swBranch(nil), sim.branches...)
+	n := sim.nNodes
+	st.j = make([]float64, n)
+	st.v = make([]float64, n)
+	st.hist = make([][2][3]float64, 0, len(st.lines))
+	for a := 3; a < n; a++ {
+		st.v[a] = sim.trappedAt(a, trapped)
+	}
+	for bi := range st.branches {
+		br := &st.branches[bi]
+		br.i, br.v, br.vc = 0, 0, 0
+		if br.a < 3 {
+			continue // bus side: set with the source
+		}
+		vb := 0.0
+		if br.b >= 0 {
+			vb = st.v[br.b]
+		}
+		br.v = st.v[br.a] - vb
+		br.vc = br.v
+	}
+	return st
+}
+
+// initSource puts the source side of st (source branch, sending bus and its
+// bus-connected shunts) in its sinusoidal steady state with the breaker open at the
+// time tm1, for the phase a EMF angle th (rad) at time 0.
+func (sim *SwitchingSimulator) initSource(st *shotState, th, tm1 float64) {
+	net, w, base := sim.net, sim.net.Omega, sim.net.EMFPeak
+	var ysb complex128
+	for _, sh := range net.Shunts {
+		if sh.End == freqscan.Sending && !sh.OnLine {
+			ysb += sh.Admittance(complex(0, w))
+		}
+	}
+	rot := cmplx.Exp(complex(0, w*tm1))
+	var vbus [3]complex128
+	var srcUp, srcIp [3]float64
+	for k := 0; k < 3; k++ {
+		e := cmplx.Exp(complex(0, th-float64(k)*2*math.Pi/3))
+		vb := e / (1 + sim.srcZ[1]*ysb)
+		vbus[k] = vb
+		srcUp[k] = imag((e-vb)*rot) * base
+		srcIp[k] = imag(vb*ysb*rot) * base
+	}
+	st.srcU, st.srcI = toModal(srcUp), toModal(srcIp)
+	for bi := range st.branches {
+		br := &st.branches[bi]
+		if br.a >= 3 {
+			continue
+		}
+		vb := vbus[br.a]
+		sh := freqscan.Shunt{R: br.r, L: br.l, C: br.c}
+		y := sh.Admittance(complex(0, w))
+		br.v = imag(vb*rot) * base
+		br.i = imag(vb*y*rot) * base
+		if br.c > 0 {
+			br.vc = imag(vb*y/complex(0, w*br.c)*rot) * base
+		}
+	}
+	for k := 0; k < 3; k++ {
+		st.v[sim.busNode[k]] = imag(vbus[k]*rot) * base
+	}
+}
+
+// advance takes st one time step on with the topology tp and the phase EMFs ek (V).
+func (sim *SwitchingSimulator) advance(st *shotState, tp *topology, ek [3]float64) {
+	n := sim.nNodes
+	for i := range st.j {
+		st.j[i] = 0
+	}
+	if !sim.ideal {
+		var hm [3]float64
+		em := toModal(ek)
+		for m := 0; m < 3; m++ {
+			// i = G·u + G·(u_prev + K·i_prev), u = e − v_bus
+			hm[m] = sim.srcG[m]*em[m] + sim.srcG[m]*(st.srcU[m]+sim.srcK[m]*st.srcI[m])
+		}
+		hp := toPhase(hm)
+		for k := 0; k < 3; k++ {
+			st.j[sim.busNode[k]] += hp[k]
+		}
+	}
+	for bi := range st.branches {
+		br := &st.branches[bi]
+		br.history()
+		st.j[br.a] -= br.hist
+		if br.b >= 0 {
+			st.j[br.b] += br.hist
+		}
+	}
+	st.hist = st.hist[:0]
+	for li, ln := range st.lines {
+		hs, hr := ln.history()
+		st.hist = append(st.hist, [2][3]float64{hs, hr})
+		ps, pr := toPhase(hs), toPhase(hr)
+		for k := 0; k < 3; k++ {
+			st.j[sim.endNode[li][k]] -= ps[k]
+			st.j[sim.endNode[li+1][k]] -= pr[k]
+		}
+	}
+	// Solve.
+	nu := tp.nu
+	if cap(st.rhs) < nu {
+		st.rhs = make([]float64, nu)
+		st.vu = make([]float64, nu)
+	}
+	rhs, vu := st.rhs[:nu], st.vu[:nu]
+	for i := range rhs {
+		rhs[i] = 0
+	}
+	for a := 0; a < n; a++ {
+		if u := tp.nodeU[a]; u >= 0 {
+			rhs[u] += st.j[a]
+		}
+	}
+	if sim.ideal {
+		for u := 0; u < nu; u++ {
+			rhs[u] -= tp.guk[u*3]*ek[0] + tp.guk[u*3+1]*ek[1] + tp.guk[u*3+2]*ek[2]
+		}
+	}
+	for r := 0; r < nu; r++ {
+		row := tp.inv[r*nu : (r+1)*nu]
+		var s float64
+		for c, x := range row {
+			s += x * rhs[c]
+		}
+		vu[r] = s
+	}
+	if len(tp.arrU) > 0 {
+		sim.arresters(tp, st, vu)
+	}
+	for a := 0; a < n; a++ {
+		if u := tp.nodeU[a]; u >= 0 {
+			st.v[a] = vu[u]
+		} else {
+			st.v[a] = ek[tp.nodeK[a]]
+		}
+	}
+	// Update states.
+	if !sim.ideal {
+		var up [3]float64
+		for k := 0; k < 3; k++ {
+			up[k] = ek[k] - st.v[sim.busNode[k]]
+		}
+		um := toModal(up)
+		for m := 0; m < 3; m++ {
+			st.srcI[m] = sim.srcG[m]*um[m] + sim.srcG[m]*(st.srcU[m]+sim.srcK[m]*st.srcI[m])
+		}
+		st.srcU = um
+	}
+	for bi := range st.branches {
+		br := &st.branches[bi]
+		v := st.v[br.a]
+		if br.b >= 0 {
+			v -= st.v[br.b]
+		}
+		br.update(v)
+	}
+	for li, ln := range st.lines {
+		var vs, vr [3]float64
+		for k := 0; k < 3; k++ {
+			vs[k] = st.v[sim.endNode[li][k]]
+			vr[k] = st.v[sim.endNode[li+1][k]]
+		}
+		vsm, vrm := toModal(vs), toModal(vr)
+		var is, ir [3]float64
+		for m := 0; m < 3; m++ {
+			is[m] = vsm[m]/ln.z[m] + st.hist[li][0][m]
+			ir[m] = vrm[m]/ln.z[m] + st.hist[li][1][m]
+		}
+		ln.store(vsm, vrm, is, ir)
+	}
 }
 
 // Shot simulates one shot. With record it also returns the waveforms.
@@ -616,63 +835,16 @@ func (sim *SwitchingSimulator) Shot(spec ShotSpec, record bool) (Shot, *ThreePha
 	}
 	base := net.EMFPeak
 
-	st := &shotState{}
-	trapped := [3]float64{set.TrappedPU[0] * base, set.TrappedPU[1] * base, set.TrappedPU[2] * base}
-	for _, sec := range net.Line.Sections {
-		st.lines = append(st.lines, newModalBergeron(sec, dt, trapped))
+	// Initial state at t0 − dt: the line side at the trapped voltages with zero
+	// current, or as the dead time left it; the source side in its sinusoidal steady
+	// state with the breaker open.
+	var st *shotState
+	if sim.ring != nil {
+		st = sim.ring.stateAt(sim, sim.ring.stepAt(t0-dt, dt))
+	} else {
+		st = sim.openingState(sim.trappedV())
 	}
-	st.branches = append([]swBranch(nil), sim.branches...)
-	n := sim.nNodes
-	st.j = make([]float64, n)
-	st.v = make([]float64, n)
-	// Initial state at t0 − dt: source side in its sinusoidal steady state with the
-	// breaker open; line side at the trapped voltages with zero current.
-	tm1 := t0 - dt
-	var ysb complex128
-	for _, sh := range net.Shunts {
-		if sh.End == freqscan.Sending && !sh.OnLine {
-			ysb += sh.Admittance(complex(0, w))
-		}
-	}
-	var vbus [3]complex128
-	var srcUp, srcIp [3]float64
-	for k := 0; k < 3; k++ {
-		e := cmplx.Exp(complex(0, th-float64(k)*2*math.Pi/3))
-		vb := e / (1 + sim.srcZ[1]*ysb)
-		vbus[k] = vb
-		rot := cmplx.Exp(complex(0, w*tm1))
-		srcUp[k] = imag((e-vb)*rot) * base
-		srcIp[k] = imag(vb*ysb*rot) * base
-	}
-	st.srcU, st.srcI = toModal(srcUp), toModal(srcIp)
-	for bi := range st.branches {
-		br := &st.branches[bi]
-		rot := cmplx.Exp(complex(0, w*tm1))
-		isBus := br.a < 3
-		switch {
-		case isBus:
-			vb := vbus[br.a]
-			sh := freqscan.Shunt{R: br.r, L: br.l, C: br.c}
-			y := sh.Admittance(complex(0, w))
-			br.v = imag(vb*rot) * base
-			br.i = imag(vb*y*rot) * base
-			if br.c > 0 {
-				br.vc = imag(vb*y/complex(0, w*br.c)*rot) * base
-			}
-		default:
-			br.i = 0
-			va := sim.trappedAt(br.a, trapped)
-			vb := 0.0
-			if br.b >= 0 {
-				vb = sim.trappedAt(br.b, trapped)
-			}
-			br.v = va - vb
-			br.vc = br.v
-		}
-	}
-	for k := 0; k < 3; k++ {
-		st.v[sim.busNode[k]] = imag(vbus[k]*cmplx.Exp(complex(0, w*tm1))) * base
-	}
+	sim.initSource(st, th, t0-dt)
 
 	var shot Shot
 	shot.ShotSpec = spec
@@ -689,7 +861,6 @@ func (sim *SwitchingSimulator) Shot(spec ShotSpec, record bool) (Shot, *ThreePha
 	recv := sim.endNode[nj-1]
 	send := sim.endNode[0]
 	var ek [3]float64
-	hist := make([][2][3]float64, 0, len(st.lines))
 	for step := 0; step < nSteps; step++ {
 		t := t0 + float64(step)*dt
 		code := 0
@@ -705,116 +876,10 @@ func (sim *SwitchingSimulator) Shot(spec ShotSpec, record bool) (Shot, *ThreePha
 			code += s * mul
 			mul *= 3
 		}
-		tp := sim.topo[code]
 		for k := 0; k < 3; k++ {
 			ek[k] = emf(t, k) * base
 		}
-		// Injections.
-		for i := range st.j {
-			st.j[i] = 0
-		}
-		if !sim.ideal {
-			var hm [3]float64
-			em := toModal(ek)
-			for m := 0; m < 3; m++ {
-				// i = G·u + G·(u_prev + K·i_prev), u = e − v_bus
-				hm[m] = sim.srcG[m]*em[m] + sim.srcG[m]*(st.srcU[m]+sim.srcK[m]*st.srcI[m])
-			}
-			hp := toPhase(hm)
-			for k := 0; k < 3; k++ {
-				st.j[sim.busNode[k]] += hp[k]
-			}
-		}
-		for bi := range st.branches {
-			br := &st.branches[bi]
-			br.history()
-			st.j[br.a] -= br.hist
-			if br.b >= 0 {
-				st.j[br.b] += br.hist
-			}
-		}
-		hist = hist[:0]
-		for li, ln := range st.lines {
-			hs, hr := ln.history()
-			hist = append(hist, [2][3]float64{hs, hr})
-			ps, pr := toPhase(hs), toPhase(hr)
-			for k := 0; k < 3; k++ {
-				st.j[sim.endNode[li][k]] -= ps[k]
-				st.j[sim.endNode[li+1][k]] -= pr[k]
-			}
-		}
-		// Solve.
-		nu := tp.nu
-		if cap(st.rhs) < nu {
-			st.rhs = make([]float64, nu)
-			st.vu = make([]float64, nu)
-		}
-		rhs, vu := st.rhs[:nu], st.vu[:nu]
-		for i := range rhs {
-			rhs[i] = 0
-		}
-		for a := 0; a < n; a++ {
-			if u := tp.nodeU[a]; u >= 0 {
-				rhs[u] += st.j[a]
-			}
-		}
-		if sim.ideal {
-			for u := 0; u < nu; u++ {
-				rhs[u] -= tp.guk[u*3]*ek[0] + tp.guk[u*3+1]*ek[1] + tp.guk[u*3+2]*ek[2]
-			}
-		}
-		for r := 0; r < nu; r++ {
-			row := tp.inv[r*nu : (r+1)*nu]
-			var s float64
-			for c, x := range row {
-				s += x * rhs[c]
-			}
-			vu[r] = s
-		}
-		if len(tp.arrU) > 0 {
-			sim.arresters(tp, st, vu)
-		}
-		for a := 0; a < n; a++ {
-			if u := tp.nodeU[a]; u >= 0 {
-				st.v[a] = vu[u]
-			} else {
-				st.v[a] = ek[tp.nodeK[a]]
-			}
-		}
-		// Update states.
-		if !sim.ideal {
-			var up [3]float64
-			for k := 0; k < 3; k++ {
-				up[k] = ek[k] - st.v[sim.busNode[k]]
-			}
-			um := toModal(up)
-			for m := 0; m < 3; m++ {
-				st.srcI[m] = sim.srcG[m]*um[m] + sim.srcG[m]*(st.srcU[m]+sim.srcK[m]*st.srcI[m])
-			}
-			st.srcU = um
-		}
-		for bi := range st.branches {
-			br := &st.branches[bi]
-			v := st.v[br.a]
-			if br.b >= 0 {
-				v -= st.v[br.b]
-			}
-			br.update(v)
-		}
-		for li, ln := range st.lines {
-			var vs, vr [3]float64
-			for k := 0; k < 3; k++ {
-				vs[k] = st.v[sim.endNode[li][k]]
-				vr[k] = st.v[sim.endNode[li+1][k]]
-			}
-			vsm, vrm := toModal(vs), toModal(vr)
-			var is, ir [3]float64
-			for m := 0; m < 3; m++ {
-				is[m] = vsm[m]/ln.z[m] + hist[li][0][m]
-				ir[m] = vrm[m]/ln.z[m] + hist[li][1][m]
-			}
-			ln.store(vsm, vrm, is, ir)
-		}
+		sim.advance(st, sim.topo[code], ek)
 		for k := 0; k < 3; k++ {
 			vr := st.v[recv[k]] / base
 			if step == 0 || math.Abs(vr) > math.Abs(shot.Peak[k]) {
@@ -829,6 +894,13 @@ func (sim *SwitchingSimulator) Shot(spec ShotSpec, record bool) (Shot, *ThreePha
 		}
 	}
 	return shot, wave
+}
+
+// trappedV returns the trapped voltages in V.
+func (sim *SwitchingSimulator) trappedV() [3]float64 {
+	b := sim.net.EMFPeak
+	t := sim.set.TrappedPU
+	return [3]float64{t[0] * b, t[1] * b, t[2] * b}
 }
 
 // trappedAt returns the initial voltage of a line-side node: the trapped voltage of
@@ -1008,7 +1080,7 @@ func Switching(net ThreePhase, s SwitchingSettings, progress func(done int)) (*S
 	}
 	specs := DrawShots(s)
 	if s.Controlled {
-		specs = ControlledShots(s, net.Omega)
+		specs = sim.ControlledShots()
 	}
 	shots := sim.Run(specs, s.Workers, progress)
 	for _, sh := range shots {

@@ -199,6 +199,11 @@ func (rr *reportRun) switchingSection() (report.Section, error) {
 	sec.Facts = append(sec.Facts, report.Fact{Name: "worst shot",
 		Value: fmt.Sprintf("#%d, closing at %.1f°, poles at %+.2f, %+.2f, %+.2f ms; peaks %+.3f, %+.3f, %+.3f pu (EMF base)",
 			ws.Index+1, ws.CloseDeg, ws.PoleCloseMs[0], ws.PoleCloseMs[1], ws.PoleCloseMs[2], ws.PeakPU[0], ws.PeakPU[1], ws.PeakPU[2])})
+	if rc := r.Reclosing; rc.SendingPU != nil {
+		v, tr := rc.SendingPU, rc.TrappedPU
+		sec.Facts = append(sec.Facts, report.Fact{Name: fmt.Sprintf("trapped charge at the closing, after the %g ms dead time", rc.DeadTimeMs),
+			Value: fmt.Sprintf("%+.3f, %+.3f, %+.3f pu (%+.2f, %+.2f, %+.2f pu at the opening)", v[0], v[1], v[2], tr[0], tr[1], tr[2])})
+	}
 
 	plots := switchingPlots(&r)
 	names := []string{"switching.svg", "switching_worst.svg"}

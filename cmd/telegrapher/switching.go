@@ -23,7 +23,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strings"
 	"sync"
 	"sync/atomic"
@@ -46,7 +45,17 @@ func init() {
 Closes a three-pole breaker on the open-ended three-phase line [switching] shots times,
 with the mean closing instant uniformly random over one cycle (or fixed by close_deg)
 and each pole scattered about it (pole_sigma_ms, normal truncated at 3 sigma), with
-trapped charge (trapped_pu) and an optional pre-insertion resistor. The line is
+trapped charge (trapped_pu) and an optional pre-insertion resistor.
+
+Reclosing: trapped_pu is each phase's line voltage at the opening, with zero current
+in the line and its reactors. Through the dead time (dead_time_ms, default 300 ms,
+from the opening to the mean closing instant; 0 = the charge held at the closing) the
+de-energised line is simulated by the same model: with line-connected reactors its
+charge rings at about 1/(2 pi sqrt(LC)) per mode and decays through their losses;
+without, it stays as d.c. Every shot starts from that state; the output gives the
+line voltages and reactor currents at the closing. With controlled_closing each pole
+aims at the least voltage across its contacts (EMF minus the ringing line side)
+within two cycles of the command. The line is
 transposed, in modal form (ground mode on the zero-sequence constants, two aerial modes
 on the positive-sequence ones); the source has positive- and zero-sequence R-L
 impedance ([source] x0_over_x1). It needs zero-sequence data: [line] r0/l0/c0 or a
@@ -58,7 +67,8 @@ base us_kv*sqrt(2)/sqrt(3), and in kV. With switching.siwl_kv the margin
 (siwl / (ks * kcd * u2_kv) - 1) * 100 is given. Without [[switching.arrester]] the
 results are unprotected overvoltages; with them, both are shown side by side.
 
-Own keys of [switching]: neutral_reactor_sending_ohm, neutral_reactor_receiving_ohm
+Own keys of [switching]: dead_time_ms, controlled_closing, controlled_sigma_ms,
+neutral_reactor_sending_ohm, neutral_reactor_receiving_ohm
 (neutral reactor of that end's line-connected reactors, reactance at frequency_hz), and
 [[switching.arrester]] with at = "sending"|"receiving" and rated_kv (a typical
 metal-oxide curve) or vi_ka_kv = [[kA, kV], ...].
@@ -132,6 +142,26 @@ type switchingWorst struct {
 	PeakPU      [3]float64 `json:"peak_pu"`
 }
 
+// switchingReclosing is the trapped charge: at the opening, and as the dead time
+// leaves it at the mean closing instant (pu of the EMF base).
+type switchingReclosing struct {
+	DeadTimeMs float64    `json:"dead_time_ms"`
+	TrappedPU  [3]float64 `json:"trapped_pu"` // at the opening
+	// At the mean closing instant: each phase's line voltage at the sending and
+	// receiving end, the largest |sending-end voltage| over the last LargestMs of the
+	// dead time, the line-connected reactor currents (A) at the sending and receiving
+	// end. Absent without trapped charge or without a dead time.
+	SendingPU   *[3]float64    `json:"line_sending_pu,omitempty"`
+	ReceivingPU *[3]float64    `json:"line_receiving_pu,omitempty"`
+	LargestPU   *[3]float64    `json:"largest_pu,omitempty"`
+	LargestMs   float64        `json:"largest_over_ms,omitempty"`
+	ReactorA    *[2][3]float64 `json:"reactor_current_a,omitempty"`
+	// The lumped estimate 1/(2π√(LC)) of the ring-down frequency of the ground and
+	// aerial modes; 0 without line-connected reactors (the charge stays as d.c.).
+	RingGroundHz float64 `json:"ring_ground_hz"`
+	RingAerialHz float64 `json:"ring_aerial_hz"`
+}
+
 // switchingResult is the whole switching study. The top-level figures are those of
 // the study as given (with its arresters, if any); WithoutArresters repeats them for
 // the same shots without arresters when the study has some.
@@ -158,6 +188,7 @@ type switchingResult struct {
 	TimeStepUs        float64             `json:"time_step_us"`
 	ModalEvalHz       float64             `json:"modal_constants_at_hz"`
 	WorstShot         switchingWorst      `json:"worst_shot"`
+	Reclosing         switchingReclosing  `json:"reclosing"`
 	Notes             []string            `json:"notes"`
 	Caution           string              `json:"caution"`
 
@@ -196,7 +227,7 @@ func switchingSetup(st *study.Study, ml waves.ModalLine) (waves.ThreePhase, wave
 		Shots: set.Shots, Seed: uint64(set.Seed), HasCloseDeg: set.HasCloseDeg, CloseDeg: set.CloseDeg,
 		PoleSigma: set.PoleSigma, TrappedPU: set.TrappedPU, Preinsertion: set.Preinsertion,
 		InsertTime: set.InsertTime, Duration: set.Duration, TimeStep: set.TimeStep,
-		Controlled: opt.Controlled, ControlledSigma: opt.ControlledSigma,
+		Controlled: opt.Controlled, ControlledSigma: opt.ControlledSigma, DeadTime: opt.DeadTime,
 	}
 	if ws.Preinsertion == 0 {
 		ws.InsertTime = 0
@@ -217,7 +248,7 @@ func computeSwitching(st *study.Study) (switchingResult, error) {
 	return computeSwitchingProgress(st, nil)
 }
 
-func computeSwitchingProgress(st *study.Study, progress func(done, total int)) (switchingResult, error) {
+func computeSwitchingProgress(st *study.Study, progress func(done, total int, pass string)) (switchingResult, error) {
 	var res switchingResult
 	if err := switchingApplicable(st); err != nil {
 		return res, err
@@ -233,14 +264,16 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int)) (
 		return res, usagef("%s: line: %v", st.File, err)
 	}
 	net, ws, arr := switchingSetup(st, ml)
-	runs := 1
-	if len(arr) > 0 {
-		runs = 2
-	}
+	// Progress counts shots, once per pass: the shots run a second time with the
+	// arresters when the study has them.
 	var done atomic.Int64
+	pass := ""
+	if len(arr) > 0 {
+		pass = "without arresters"
+	}
 	prog := func(int) {
 		if progress != nil {
-			progress(int(done.Add(1)), runs*set.Shots)
+			progress(int(done.Add(1)), set.Shots, pass)
 		}
 	}
 	toIEC := st.Voltage / st.Us
@@ -278,6 +311,8 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int)) (
 	sim, r, f := simBare, rBare, fBare
 	if len(arr) > 0 {
 		net.Arresters = arr
+		pass = "with arresters"
+		done.Store(0)
 		sim, r, f, err = run(net)
 		if err != nil {
 			return res, err
@@ -299,7 +334,11 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int)) (
 		fmt.Sprintf("statistics: IEC 60071-2 phase-peak method (u2 = 98th percentile of the %d absolute phase peaks, linear interpolation; ut = 1.25 u2 - 0.25) and case-peak method (ut = 1.13 u2 - 0.13), per unit of Us*sqrt(2)/sqrt(3) = %.1f kV", 3*set.Shots, baseIEC/1e3),
 		"pole closing instants are rounded to the time step; duration counted from the last pole's last contact (resistor bypass included)")
 	if ws.Controlled {
-		res.Notes = append(res.Notes, fmt.Sprintf("controlled closing: each pole aims where the voltage across its contacts is zero, scattered by %g ms (normal, truncated at 3 sigma), instead of random closing", ws.ControlledSigma*1e3))
+		aim := "where the voltage across its contacts is zero"
+		if ws.DeadTime > 0 && ws.TrappedPU != [3]float64{} {
+			aim = "at the least voltage across its contacts (EMF minus the ringing line-side voltage the dead time leaves) within two cycles of the command, over its scatter"
+		}
+		res.Notes = append(res.Notes, fmt.Sprintf("controlled closing: each pole aims %s, scattered by %g ms (normal, truncated at 3 sigma), instead of random closing", aim, ws.ControlledSigma*1e3))
 	}
 	// Switching coordination current: 2 kA above 362 kV, 1 kA below (IEC 60099-5, from memory).
 	ka := 1.0
@@ -341,6 +380,14 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int)) (
 	res.WorstShot = switchingWorst{Index: worst, CloseDeg: math.Mod(shot.CloseDeg, 360), PeakPU: shot.Peak}
 	for k := 0; k < 3; k++ {
 		res.WorstShot.PoleCloseMs[k] = shot.Offset[k] * 1e3
+	}
+	res.Reclosing = switchingReclosing{DeadTimeMs: ws.DeadTime * 1e3, TrappedPU: ws.TrappedPU}
+	res.Reclosing.RingGroundHz, res.Reclosing.RingAerialHz = net.RingEstimate()
+	if rd := sim.RingDown(); rd != nil {
+		rc := &res.Reclosing
+		rc.SendingPU, rc.ReceivingPU, rc.LargestPU = &rd.Sending, &rd.Receiving, &rd.Largest
+		rc.LargestMs, rc.ReactorA = rd.RingSpan*1e3, &rd.ReactorI
+		res.Notes = append(res.Notes, fmt.Sprintf("dead time %g ms: the de-energised line is simulated from the opening (line at trapped_pu, zero current in the line and its reactors) by the same model and step as the shots; every shot starts from that ring-down state", ws.DeadTime*1e3))
 	}
 	res.Caution = Caution
 	return res, nil
@@ -464,6 +511,7 @@ func printSwitching(w io.Writer, r *switchingResult) {
 	if r.MarginArresterPct != nil {
 		fmt.Fprintf(w, "IEC 60071-2 deterministic margin with arresters: siwl / (ks*Kcd*Ups) - 1 = %.1f %% (Kcd %.3f from Fig. 6, approximate)\n", *r.MarginArresterPct, r.KcdFigure)
 	}
+	printReclosing(w, &r.Reclosing)
 	ws := r.WorstShot
 	fmt.Fprintf(w, "\nWorst shot #%d: close at %.1f deg, poles at %+.2f, %+.2f, %+.2f ms; peaks %+.3f, %+.3f, %+.3f pu (EMF base)\n",
 		ws.Index+1, ws.CloseDeg, ws.PoleCloseMs[0], ws.PoleCloseMs[1], ws.PoleCloseMs[2], ws.PeakPU[0], ws.PeakPU[1], ws.PeakPU[2])
@@ -474,20 +522,50 @@ func printSwitching(w io.Writer, r *switchingResult) {
 	fmt.Fprintln(w, "\n"+Caution)
 }
 
+// printReclosing writes the dead time and the trapped charge at the closing.
+func printReclosing(w io.Writer, rc *switchingReclosing) {
+	tr := rc.TrappedPU
+	fmt.Fprintf(w, "\nDead time %g ms; trapped charge at the opening %+.3f, %+.3f, %+.3f pu\n", rc.DeadTimeMs, tr[0], tr[1], tr[2])
+	switch {
+	case tr == [3]float64{}:
+		fmt.Fprintln(w, "  no trapped charge: the line is uncharged at the closing")
+		return
+	case rc.SendingPU == nil:
+		fmt.Fprintln(w, "  no dead time: the line holds the trapped charge at the closing, with zero reactor current")
+		return
+	}
+	v, vr, big := rc.SendingPU, rc.ReceivingPU, rc.LargestPU
+	fmt.Fprintf(w, "  at the mean closing instant: line voltage %+.3f, %+.3f, %+.3f pu (sending end), %+.3f, %+.3f, %+.3f pu (receiving end)\n", v[0], v[1], v[2], vr[0], vr[1], vr[2])
+	fmt.Fprintf(w, "  largest |line voltage| over the last %.0f ms of the dead time: %.3f, %.3f, %.3f pu\n", rc.LargestMs, big[0], big[1], big[2])
+	if rc.RingAerialHz == 0 && rc.RingGroundHz == 0 {
+		fmt.Fprintln(w, "  no line-connected reactors: the charge stays as d.c., leaking away through the line's conductance only")
+		return
+	}
+	fmt.Fprintf(w, "  ringing through the line-connected reactors: lumped estimate 1/(2 pi sqrt(LC)) %.1f Hz aerial, %.1f Hz ground\n", rc.RingAerialHz, rc.RingGroundHz)
+	for e, end := range []string{"sending", "receiving"} {
+		if i := rc.ReactorA[e]; i != [3]float64{} {
+			fmt.Fprintf(w, "  %s-end reactor currents at the mean closing instant: %+.1f, %+.1f, %+.1f A\n", end, i[0], i[1], i[2])
+		}
+	}
+}
+
 // progressBar returns a progress callback drawing a bar on stderr when it is a
 // terminal, or nil.
-func progressBar(stderr io.Writer) func(done, total int) {
-	f, ok := stderr.(*os.File)
-	if !ok {
+func progressBar(stderr io.Writer) func(done, total int, pass string) {
+	if !isTerminal(stderr) {
 		return nil
 	}
-	info, err := f.Stat()
-	if err != nil || info.Mode()&os.ModeCharDevice == 0 {
-		return nil
-	}
+	return shotProgress(stderr)
+}
+
+// shotProgress returns a progress callback drawing done/total shots on w as a bar
+// redrawn in place (at most every 100 ms, and at the end of each pass), with the pass
+// ("without arresters", "with arresters") when the study runs its shots twice; the
+// line is cleared at the end of each pass.
+func shotProgress(w io.Writer) func(done, total int, pass string) {
 	var mu sync.Mutex
 	var last int64
-	return func(done, total int) {
+	return func(done, total int, pass string) {
 		mu.Lock()
 		defer mu.Unlock()
 		now := time.Now().UnixMilli()
@@ -496,10 +574,13 @@ func progressBar(stderr io.Writer) func(done, total int) {
 		}
 		last = now
 		const width = 40
-		n := done * width / total
-		fmt.Fprintf(f, "\r[%s%s] %d/%d shots", strings.Repeat("#", n), strings.Repeat(".", width-n), done, total)
+		n := done * width / max(total, 1)
+		if pass != "" {
+			pass = " (" + pass + ")"
+		}
+		fmt.Fprintf(w, "\r[%s%s] %d/%d shots%s", strings.Repeat("#", n), strings.Repeat(".", width-n), done, total, pass)
 		if done == total {
-			fmt.Fprint(f, "\r\033[K")
+			fmt.Fprint(w, "\r\033[K")
 		}
 	}
 }

@@ -3,6 +3,8 @@ package study
 // The [switching] table: the contract's keys into SwitchingSettings, and this file's
 // own keys into SwitchingOptions:
 //
+//	dead_time_ms = 300                  # reclosing dead time: trapped_pu rings down
+//	                                    #   from the opening to the mean closing instant
 //	neutral_reactor_sending_ohm   = 0   # reactance at frequency_hz of a neutral reactor
 //	neutral_reactor_receiving_ohm = 0   #   between the star point of that end's
 //	                                    #   line-connected reactors and earth; 0 = solid
@@ -28,7 +30,7 @@ var (
 		"shots", "seed", "close_deg", "pole_sigma_ms", "trapped_pu", "preinsertion_ohm",
 		"preinsertion_ms", "siwl_kv", "ks", "kcd", "duration_ms", "time_step_us",
 		"neutral_reactor_sending_ohm", "neutral_reactor_receiving_ohm", "arrester",
-		"controlled_closing", "controlled_sigma_ms",
+		"controlled_closing", "controlled_sigma_ms", "dead_time_ms",
 	}
 	arresterKeys = []string{"at", "rated_kv", "vi_ka_kv", "name"}
 )
@@ -54,6 +56,9 @@ type SwitchingOptions struct {
 	// across its contacts, scattered by ControlledSigma (s); replaces random closing.
 	Controlled      bool
 	ControlledSigma float64
+	// DeadTime is the reclosing dead time (s), from the line's opening with the
+	// trapped charge to the mean closing instant; default 300 ms.
+	DeadTime float64
 }
 
 func init() {
@@ -97,6 +102,10 @@ func swErrorf(file, path, format string, a ...any) error {
 	return &swError{fmt.Sprintf("%s: %s: %s", file, path, fmt.Sprintf(format, a...))}
 }
 
+// DefaultDeadTimeMs is the default reclosing dead time (ms): a three-phase
+// auto-reclosing dead time of 300 ms (common practice, no source).
+const DefaultDeadTimeMs = 300
+
 // DefaultSwitching returns the contract's defaults of [switching].
 func DefaultSwitching() SwitchingSettings {
 	return SwitchingSettings{
@@ -111,7 +120,7 @@ func DefaultSwitching() SwitchingSettings {
 // understood. Errors name the file and the key path.
 func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (SwitchingSettings, SwitchingOptions, []Entry, error) {
 	s := DefaultSwitching()
-	var o SwitchingOptions
+	o := SwitchingOptions{DeadTime: DefaultDeadTimeMs * 1e-3}
 	var seen []Entry
 	if tbl == nil {
 		return s, o, seen, nil
@@ -224,9 +233,8 @@ func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (Swi
 			o.HasKcd = given
 		}
 	}
-	if s.SIWL > 0 && us <= 245e3 {
-		return s, o, nil, swErrorf(file, path("siwl_kv"), "switching impulse withstand levels belong to range II (us_kv > 245); this study has us_kv = %g", us/1e3)
-	}
+	// siwl_kv with us_kv <= 245 (range I) is refused by the switching computation
+	// only, so the other commands run on the same file.
 	if s.TimeStep > 0 && (s.Duration+s.InsertTime)/s.TimeStep > waves.MaxSamples {
 		return s, o, nil, swErrorf(file, path("time_step_us"), "duration_ms / time_step_us gives %.4g samples, more than %d", (s.Duration+s.InsertTime)/s.TimeStep, waves.MaxSamples)
 	}
@@ -281,6 +289,15 @@ func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (Swi
 			o.ControlledSigma = sig * 1e-3
 			add("controlled_sigma_ms", fmt.Sprintf("%g ms (closing-time scatter of controlled closing)", sig), given)
 		}
+	}
+	if d, given, err := num("dead_time_ms", DefaultDeadTimeMs); err != nil {
+		return s, o, nil, err
+	} else {
+		if d < 0 || d > waves.MaxDeadTime*1e3 {
+			return s, o, nil, swErrorf(file, path("dead_time_ms"), "must be >= 0 and at most %g ms, got %g", waves.MaxDeadTime*1e3, d)
+		}
+		o.DeadTime = d * 1e-3
+		add("dead_time_ms", fmt.Sprintf("%g ms (reclosing dead time: the trapped charge of trapped_pu rings down from the opening to the mean closing instant)", d), given)
 	}
 	if v, ok := tbl["arrester"]; ok {
 		list, err := swTables(v)

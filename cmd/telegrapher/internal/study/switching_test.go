@@ -78,13 +78,15 @@ func TestParseSwitchingErrors(t *testing.T) {
 		{"zero duration", map[string]any{"duration_ms": 0.0}, 420e3, "switching.duration_ms: must be > 0"},
 		{"trapped length", map[string]any{"trapped_pu": []any{1.0}}, 420e3, "switching.trapped_pu: must be an array of three"},
 		{"trapped value", map[string]any{"trapped_pu": []any{1.0, "x", 0.0}}, 420e3, "switching.trapped_pu[1]"},
-		{"siwl range I", map[string]any{"siwl_kv": 850.0}, 245e3, "switching.siwl_kv: switching impulse withstand levels belong to range II"},
 		{"samples", map[string]any{"time_step_us": 0.001, "duration_ms": 20.0}, 420e3, "switching.time_step_us:"},
 		{"arrester end", map[string]any{"arrester": []map[string]any{{"at": "middle", "rated_kv": 336.0}}}, 420e3, "switching.arrester[0].at"},
 		{"arrester both", map[string]any{"arrester": []map[string]any{{"at": "sending", "rated_kv": 336.0, "vi_ka_kv": []any{}}}}, 420e3, "give exactly one of rated_kv and vi_ka_kv"},
 		{"arrester table order", map[string]any{"arrester": []map[string]any{{"at": "sending", "vi_ka_kv": []any{[]any{1.0, 700.0}, []any{0.5, 800.0}}}}}, 420e3, "switching.arrester[0].vi_ka_kv[1]"},
 		{"arrester key", map[string]any{"arrester": []map[string]any{{"at": "sending", "rated": 336.0}}}, 420e3, "switching.arrester[0].rated: unknown key"},
 		{"neutral negative", map[string]any{"neutral_reactor_sending_ohm": -5.0}, 420e3, "switching.neutral_reactor_sending_ohm"},
+		{"dead time negative", map[string]any{"dead_time_ms": -1.0}, 420e3, "switching.dead_time_ms: must be >= 0 and at most 10000 ms"},
+		{"dead time too long", map[string]any{"dead_time_ms": 10001.0}, 420e3, "switching.dead_time_ms: must be >= 0 and at most 10000 ms"},
+		{"dead time text", map[string]any{"dead_time_ms": "300"}, 420e3, "switching.dead_time_ms: must be a number"},
 	} {
 		_, _, _, err := ParseSwitching("s.toml", tc.tbl, 50, tc.us)
 		if err == nil {
@@ -112,5 +114,40 @@ func TestSwitchingOptionsAttach(t *testing.T) {
 	b.SetSwitchingOptions(SwitchingOptions{})
 	if a.SwitchingOptions().NeutralReactorOhm[1] != 300 {
 		t.Error("changing the copy's options changed the original's")
+	}
+}
+
+// siwl_kv in range I (us_kv <= 245) is read: only the switching computation refuses
+// it, so the file stays valid for every other command.
+func TestParseSwitchingSIWLRangeIRead(t *testing.T) {
+	t.Parallel()
+	s, _, _, err := ParseSwitching("s.toml", map[string]any{"siwl_kv": 850.0}, 50, 245e3)
+	if err != nil || s.SIWL != 850e3 {
+		t.Errorf("siwl_kv = 850 with us_kv = 245: %v, SIWL %g V", err, s.SIWL)
+	}
+}
+
+// dead_time_ms: 300 ms by default (common practice, no source: three-phase
+// auto-reclosing), given in ms, kept in s; 0 is allowed (the charge held at closing).
+func TestParseSwitchingDeadTime(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		tbl  map[string]any
+		want float64 // s
+	}{{nil, 0.3}, {map[string]any{}, 0.3}, {map[string]any{"dead_time_ms": int64(500)}, 0.5}, {map[string]any{"dead_time_ms": 0.0}, 0}} {
+		_, o, seen, err := ParseSwitching("s.toml", tc.tbl, 50, 420e3)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(o.DeadTime-tc.want) > 1e-15 {
+			t.Errorf("%v: dead time %g s, want %g", tc.tbl, o.DeadTime, tc.want)
+		}
+		found := tc.tbl == nil // an absent table lists nothing
+		for _, e := range seen {
+			found = found || e.Key == "switching.dead_time_ms"
+		}
+		if !found {
+			t.Errorf("%v: check does not list switching.dead_time_ms", tc.tbl)
+		}
 	}
 }

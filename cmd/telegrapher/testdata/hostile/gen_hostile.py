@@ -97,7 +97,6 @@ add('energise-samples-cap', 'energisation samples beyond 10,000,000', 'energise.
 add('switching-samples-cap', 'switching samples beyond 10,000,000', 'switching.time_step_us:', setk(setk(B,'switching','duration_ms','1000'),'switching','time_step_us','0.01'))
 add('switching-shots-cap', 'shots beyond 100,000', 'switching.shots:', setk(B,'switching','shots','100001'))
 add('scan-points-one', 'a scan of one point', 'scan.points:', setk(B,'scan','points','1'))
-add('siwl-range-one', 'a switching impulse level in range I', 'switching.siwl_kv:', setk(setk(setk(B,'','us_kv','245'),'','voltage_kv','220'),'switching','siwl_kv','850'))
 add('us-below-nominal', 'a highest voltage below the nominal', 'us_kv:', setk(B,'','us_kv','300'))
 add('scan-range-reversed', 'f_min_hz above f_max_hz', 'scan.f_', setk(B,'scan','f_min_hz','3000'))
 for old in glob.glob(os.path.join(out, '[0-9][0-9]-*.toml')):
