@@ -61,13 +61,19 @@ func (s *statusLine) Count(done, total int, unit string) {
 	s.draw(fmt.Sprintf("%s [%s%s] %d/%d %s", s.stage, strings.Repeat("#", n), strings.Repeat(".", width-n), done, total, unit))
 }
 
-// Counter returns a func(done, total) drawing Count with unit, for the simulators'
-// progress callbacks (nil when s is nil).
-func (s *statusLine) Counter(unit string) func(done, total int) {
+// Shots returns the switching simulator's progress callback: done of total shots,
+// with the pass ("with arresters") when the shots run twice (nil when s is nil).
+func (s *statusLine) Shots() func(done, total int, pass string) {
 	if s == nil {
 		return nil
 	}
-	return func(done, total int) { s.Count(done, total, unit) }
+	return func(done, total int, pass string) {
+		unit := "shots"
+		if pass != "" {
+			unit += " (" + pass + ")"
+		}
+		s.Count(done, total, unit)
+	}
 }
 
 // Clear removes the line, leaving the cursor at the start of an empty line.

@@ -38,7 +38,7 @@ func TestStatusLineNil(t *testing.T) {
 	s.Stage("x")
 	s.Count(1, 2, "y")
 	s.Clear()
-	if s.Counter("z") != nil {
+	if s.Shots() != nil {
 		t.Error("a nil status line gives a counter")
 	}
 	if newStatusLine(&bytes.Buffer{}) != nil {

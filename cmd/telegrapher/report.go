@@ -151,7 +151,7 @@ func (rr *reportRun) switchingSection() (report.Section, error) {
 	if err := switchingApplicable(rr.st); err != nil {
 		return notRunSection(id, title, err), nil
 	}
-	r, err := computeSwitchingProgress(rr.st, rr.status.Counter("shots"))
+	r, err := computeSwitchingProgress(rr.st, rr.status.Shots())
 	if err != nil {
 		if cannotRun(err) {
 			return notRunSection(id, title, err), nil

@@ -24,9 +24,7 @@ import (
 	"io"
 	"math"
 	"strings"
-	"sync"
 	"sync/atomic"
-	"time"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
@@ -84,7 +82,10 @@ writes the distribution on a normal-probability scale and the worst shot's wavef
 				if err != nil {
 					return err
 				}
-				res, err := computeSwitchingProgress(st, progressBar(stderr))
+				status := newStatusLine(stderr)
+				status.Stage("switching")
+				res, err := computeSwitchingProgress(st, status.Shots())
+				status.Clear()
 				if err != nil {
 					return err
 				}
@@ -545,42 +546,6 @@ func printReclosing(w io.Writer, rc *switchingReclosing) {
 	for e, end := range []string{"sending", "receiving"} {
 		if i := rc.ReactorA[e]; i != [3]float64{} {
 			fmt.Fprintf(w, "  %s-end reactor currents at the mean closing instant: %+.1f, %+.1f, %+.1f A\n", end, i[0], i[1], i[2])
-		}
-	}
-}
-
-// progressBar returns a progress callback drawing a bar on stderr when it is a
-// terminal, or nil.
-func progressBar(stderr io.Writer) func(done, total int, pass string) {
-	if !isTerminal(stderr) {
-		return nil
-	}
-	return shotProgress(stderr)
-}
-
-// shotProgress returns a progress callback drawing done/total shots on w as a bar
-// redrawn in place (at most every 100 ms, and at the end of each pass), with the pass
-// ("without arresters", "with arresters") when the study runs its shots twice; the
-// line is cleared at the end of each pass.
-func shotProgress(w io.Writer) func(done, total int, pass string) {
-	var mu sync.Mutex
-	var last int64
-	return func(done, total int, pass string) {
-		mu.Lock()
-		defer mu.Unlock()
-		now := time.Now().UnixMilli()
-		if done < total && now-last < 100 {
-			return
-		}
-		last = now
-		const width = 40
-		n := done * width / max(total, 1)
-		if pass != "" {
-			pass = " (" + pass + ")"
-		}
-		fmt.Fprintf(w, "\r[%s%s] %d/%d shots%s", strings.Repeat("#", n), strings.Repeat(".", width-n), done, total, pass)
-		if done == total {
-			fmt.Fprint(w, "\r\033[K")
 		}
 	}
 }

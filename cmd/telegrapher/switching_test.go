@@ -207,7 +207,7 @@ func TestSwitchingProgressCountsShots(t *testing.T) {
 		t.Fatal(err)
 	}
 	var buf bytes.Buffer
-	if _, err := computeSwitchingProgress(st, shotProgress(&buf)); err != nil {
+	if _, err := computeSwitchingProgress(st, (&statusLine{w: &buf}).Shots()); err != nil {
 		t.Fatal(err)
 	}
 	text := buf.String()
