@@ -42,5 +42,5 @@ func ExampleScreen() {
 	// Output:
 	// h3 (positive-sequence only): largest gain within ±10 % = 42.7
 	// h9 (positive-sequence only): largest gain within ±10 % = 39.6
-	// h11 (positive): largest gain within ±10 % = 5.1
+	// h11 (positive): largest gain within ±10 % = 5.2
 }

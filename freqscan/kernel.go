@@ -20,6 +20,9 @@ type kernel struct {
 	sendLine, sendBus   []Shunt
 	recv                []Shunt
 	loadG, loadL, loadC float64
+	reactors            [2][]Shunt // line-connected reactors behind a neutral inductance
+	neutral             [2]float64 // that inductance, H, by End
+	far                 Source     // the far system, when connected
 }
 
 func newKernel(n Network) kernel {
@@ -29,8 +32,11 @@ func newKernel(n Network) kernel {
 	}
 	k.length = n.Line[0].Length
 	k.rlgc, k.direct = n.Line[0].Constants.(propagation.RLGC)
+	k.neutral = n.ReactorNeutral
 	for _, sh := range n.Shunts {
 		switch {
+		case sh.OnLine && sh.L > 0 && n.ReactorNeutral[sh.End] > 0:
+			k.reactors[sh.End] = append(k.reactors[sh.End], sh)
 		case sh.End == Sending && sh.OnLine:
 			k.sendLine = append(k.sendLine, sh)
 		case sh.End == Sending:
@@ -44,6 +50,7 @@ func newKernel(n Network) kernel {
 			k.loadG = 1 / n.Load.R
 		}
 		k.loadL, k.loadC = n.Load.L, n.Load.C
+		k.far = n.Far
 	}
 	return k
 }
@@ -118,6 +125,21 @@ func (k *kernel) eval(p *Point, f float64) {
 	ysl := shuntsAdmittance(k.sendLine, w, &bad)
 	ysb := shuntsAdmittance(k.sendBus, w, &bad)
 	yr := shuntsAdmittance(k.recv, w, &bad)
+	for e := range k.reactors {
+		if len(k.reactors[e]) == 0 {
+			continue
+		}
+		yb := shuntsAdmittance(k.reactors[e], w, &bad)
+		yb *= inv(1+complex(0, w*k.neutral[e])*yb, &bad)
+		if End(e) == Sending {
+			ysl += yb
+		} else {
+			yr += yb
+		}
+	}
+	if !k.far.Ideal() {
+		yr += inv(complex(k.far.R, w*k.far.L), &bad)
+	}
 	var ld complex128
 	if k.loadG > 0 {
 		ld += complex(k.loadG, 0)

@@ -87,14 +87,25 @@ func (ld Load) Admittance(s complex128) complex128 {
 }
 
 // Network is the circuit around the line, for one sequence. With FarEndOpen the
-// receiving bus-connected shunts and the load are disconnected (the line energised
-// from the sending end, far end open); line-connected shunts stay.
+// receiving bus-connected shunts, the load and the far system are disconnected (the
+// line energised from the sending end, far end open); line-connected shunts stay.
 type Network struct {
-	Source     Source
-	Line       propagation.Cascade
-	Shunts     []Shunt
-	Load       Load
-	FarEndOpen bool
+	Source Source
+	Line   propagation.Cascade
+	Shunts []Shunt
+	Load   Load
+	// Far is the system beyond the receiving bus, as the harmonic transfer from the
+	// source sees it: its EMF shorted, a passive R + sL from the receiving bus to
+	// earth. The zero value is no far system.
+	Far Source
+	// ReactorNeutral is the inductance (H) between earth and the star point of the
+	// line-connected reactors of each end (indexed by End), as this sequence sees it:
+	// 3·Ln for a neutral reactor Ln in the zero sequence, 0 in the positive sequence
+	// (and for a solidly earthed star). It is in series with the parallel combination
+	// of that end's line-connected reactors, which share the star point; it does
+	// nothing at an end without one.
+	ReactorNeutral [2]float64
+	FarEndOpen     bool
 }
 
 // Energising returns a copy of n with the far end open, as for energisation.
@@ -115,12 +126,19 @@ type Response struct {
 }
 
 // Admittances returns the total shunt admittance (S) at each end at s, split into
-// line-connected and bus-connected, with the load included in the receiving bus part
-// unless the far end is open (then the receiving bus part is zero).
+// line-connected and bus-connected, with the load and the far system included in the
+// receiving bus part unless the far end is open (then the receiving bus part is zero).
+// The line-connected reactors of an end with a ReactorNeutral are combined in
+// parallel and put in series with s·ReactorNeutral:
+//
+//	Y = Yreactors / (1 + s·Ln·Yreactors)
 func (n Network) Admittances(s complex128) (sendLine, sendBus, recvLine, recvBus complex128) {
+	var reactors [2]complex128
 	for _, sh := range n.Shunts {
 		y := sh.Admittance(s)
 		switch {
+		case sh.OnLine && sh.L > 0 && n.ReactorNeutral[sh.End] > 0:
+			reactors[sh.End] += y
 		case sh.End == Sending && sh.OnLine:
 			sendLine += y
 		case sh.End == Sending:
@@ -131,10 +149,24 @@ func (n Network) Admittances(s complex128) (sendLine, sendBus, recvLine, recvBus
 			recvBus += y
 		}
 	}
+	sendLine += withNeutral(reactors[Sending], s*complex(n.ReactorNeutral[Sending], 0))
+	recvLine += withNeutral(reactors[Receiving], s*complex(n.ReactorNeutral[Receiving], 0))
 	if !n.FarEndOpen {
 		recvBus += n.Load.Admittance(s)
+		if !n.Far.Ideal() {
+			recvBus += 1 / n.Far.Impedance(s)
+		}
 	}
 	return
+}
+
+// withNeutral is the admittance y of a reactor bank with the impedance zn in series
+// with its star point: y/(1 + zn·y).
+func withNeutral(y, zn complex128) complex128 {
+	if y == 0 {
+		return 0
+	}
+	return y / (1 + zn*y)
 }
 
 // At evaluates the network at the complex frequency s (rad/s), s != 0.
@@ -212,7 +244,7 @@ func (n Network) Lossless(f float64) bool {
 			return false
 		}
 	}
-	if !n.FarEndOpen && n.Load.R > 0 {
+	if !n.FarEndOpen && (n.Load.R > 0 || n.Far.R != 0) {
 		return false
 	}
 	s := complex(0, 2*math.Pi*f)

@@ -178,10 +178,14 @@ func TestKernelMatchesAt(t *testing.T) {
 	open := ref.Energising()
 	other := ref
 	other.Line = propagation.Cascade{{Length: 300e3, Constants: geometryLike{}}}
+	far := ref
+	far.Far = Source{R: 3.2, L: 0.1}
+	far.ReactorNeutral = [2]float64{1.5, 5.7}
 	for _, tc := range []struct {
 		name string
 		n    Network
-	}{{"reference", ref}, {"far end open", open}, {"interface constants", other}} {
+	}{{"reference", ref}, {"far end open", open}, {"interface constants", other},
+		{"far system, neutral reactors", far}, {"far system, neutral reactors, far end open", far.Energising()}} {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()
 			freqs := LogGrid(nil, 0.5, 1e5, 3000)
@@ -475,5 +479,48 @@ func TestImpedanceResonances(t *testing.T) {
 		if r.Bus == "sending" {
 			t.Errorf("ideal source: no sending-bus resonance expected, got %+v", r)
 		}
+	}
+}
+
+// TestFarSystemAndNeutralIdentities: the far system is an R-L branch to earth at the
+// receiving bus, so it equals a bus-connected receiving shunt of the same R and L (and
+// is off with the far end open); a neutral inductance under a single line-connected
+// reactor adds to the reactor's own inductance.
+func TestFarSystemAndNeutralIdentities(t *testing.T) {
+	t.Parallel()
+	base := Network{Source: Source{R: 1.2, L: 0.045}, Line: line(300e3, 0.028e-3, 0.93e-6, 0, 12.4e-12),
+		Shunts: []Shunt{{End: Receiving, OnLine: true, R: 3, L: 2.1}, {End: Sending, OnLine: true, R: 4, L: 3.2}}}
+	far := base
+	far.Far = Source{R: 3.2, L: 0.1}
+	asShunt := base
+	asShunt.Shunts = append(append([]Shunt(nil), base.Shunts...), Shunt{End: Receiving, R: 3.2, L: 0.1})
+	neutral := base
+	neutral.ReactorNeutral = [2]float64{0.9, 1.7}
+	added := base
+	added.Shunts = []Shunt{{End: Receiving, OnLine: true, R: 3, L: 2.1 + 1.7}, {End: Sending, OnLine: true, R: 4, L: 3.2 + 0.9}}
+	for _, tc := range []struct {
+		name string
+		a, b Network
+	}{
+		{"far system = receiving bus shunt", far, asShunt},
+		{"far end open: no far system", far.Energising(), base.Energising()},
+		{"neutral under one reactor = added inductance", neutral, added},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			freqs := LogGrid(nil, 1, 5000, 500)
+			pa, pb := Scan(nil, tc.a, freqs), Scan(nil, tc.b, freqs)
+			for i, f := range freqs {
+				if e := math.Abs(pa[i].Gain - pb[i].Gain); e > methodTol*pb[i].Gain {
+					t.Fatalf("f = %g: gain %v, want %v", f, pa[i].Gain, pb[i].Gain)
+				}
+				if e := cmplx.Abs(pa[i].ZReceiving - pb[i].ZReceiving); e > methodTol*cmplx.Abs(pb[i].ZReceiving) {
+					t.Fatalf("f = %g: receiving impedance %v, want %v", f, pa[i].ZReceiving, pb[i].ZReceiving)
+				}
+			}
+			if tc.a.Lossless(100) {
+				t.Errorf("a network with resistances reports lossless")
+			}
+		})
 	}
 }

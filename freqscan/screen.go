@@ -96,8 +96,9 @@ type HarmonicRow struct {
 	Sequence Sequence // the network the row was screened on
 	Gain     float64  // |Vr/E| at exactly Order × Fundamental; +Inf at a pole of a lossless network
 	Watched  bool
-	// For watched orders: the largest gain within ±WatchBand of F (grid points and
-	// refined peaks of the screened sequence), and whether it exceeds GainLimit.
+	// For watched orders: the largest gain of the continuous response within
+	// ±WatchBand of F, band edges included (see bandMax), and whether it exceeds
+	// GainLimit.
 	BandGain   float64
 	OverLimit  bool
 	NearPeaks  []Peak  // resonance peaks within the band
@@ -173,17 +174,15 @@ func Screen(pos Network, posPts []Point, posPeaks []Peak, zero *Network, zeroPts
 		}
 		if row.Watched {
 			lo, hi := f*(1-sc.WatchBand), f*(1+sc.WatchBand)
-			row.BandGain = row.Gain
-			for _, p := range pts {
-				if p.F >= lo && p.F <= hi && p.Gain > row.BandGain {
-					row.BandGain = p.Gain
-				}
-			}
+			row.BandGain = math.Max(row.Gain, bandMax(&kn, pts, lo, hi))
 			for _, p := range peaks {
 				if p.F >= lo && p.F <= hi {
 					row.NearPeaks = append(row.NearPeaks, p)
 					row.BandGain = math.Max(row.BandGain, p.Gain)
 				}
+			}
+			if net.Lossless(f) && row.BandGain > unboundedGain {
+				row.BandGain = math.Inf(1)
 			}
 			row.OverLimit = row.BandGain > sc.GainLimit
 		}
@@ -208,4 +207,51 @@ func Screen(pos Network, posPts []Point, posPeaks []Peak, zero *Network, zeroPts
 	}
 	sort.Ints(sc.Watch)
 	return sc
+}
+
+// bandSamples is the number of intervals of the band's own evenly spaced samples,
+// taken besides the scan's grid points inside the band: ±10 % of f in 256 steps is
+// f/1280 apart, so a resonance as sharp as Q ≈ 1000 (half-power width f/1000) still
+// raises a sample above its neighbours whatever the scan grid.
+const bandSamples = 256
+
+// bandMax returns the largest gain of the network k over [lo, hi] (Hz): the gain at
+// both edges, at the scan points pts inside the band, and at bandSamples + 1 evenly
+// spaced samples of the band; every local maximum of these samples (the edges
+// included) is refined by golden section between its neighbours, so the result is
+// the maximum of the continuous response, not of a grid.
+func bandMax(k *kernel, pts []Point, lo, hi float64) float64 {
+	type sample struct{ f, g float64 }
+	s := make([]sample, 0, bandSamples+1+len(pts))
+	step := (hi - lo) / bandSamples
+	for i := 0; i <= bandSamples; i++ {
+		f := lo + float64(i)*step
+		if i == bandSamples {
+			f = hi
+		}
+		s = append(s, sample{f, k.point(f).Gain})
+	}
+	for _, p := range pts {
+		if p.F > lo && p.F < hi {
+			s = append(s, sample{p.F, p.Gain})
+		}
+	}
+	sort.Slice(s, func(a, b int) bool { return s[a].f < s[b].f })
+	gain := func(f float64) float64 { return k.point(f).Gain }
+	best := 0.0
+	for i, x := range s {
+		if math.IsInf(x.g, 1) {
+			return x.g
+		}
+		if (i > 0 && s[i-1].g > x.g) || (i+1 < len(s) && s[i+1].g > x.g) {
+			continue
+		}
+		a, b := s[max(i-1, 0)].f, s[min(i+1, len(s)-1)].f
+		g := x.g
+		if b > a {
+			_, g = refine(gain, a, b, x.f, x.g, true)
+		}
+		best = math.Max(best, g)
+	}
+	return best
 }

@@ -146,3 +146,78 @@ func TestSourceStrength(t *testing.T) {
 		prev = pk.F
 	}
 }
+
+// narrowNetworks are the positive- and zero-sequence networks of
+// testdata/scan_narrow.toml: 275 kV, 180 km, a 6 GVA X/R 10 source and a 120 Mvar
+// receiving-bus capacitor, with a Q 150 resonance near 716 Hz, just above the h13 band.
+func narrowNetworks() (pos, zero Network) {
+	const v, f0 = 275e3, 50.0
+	w := 2 * math.Pi * f0
+	src := SourceAt(6000e6, v, 10, f0)
+	bank := Shunt{End: Receiving, C: 120e6 / (v * v * w)}
+	pos = Network{Source: src, Line: line(180e3, 0.03e-3, 1.02e-6, 0, 11.3e-12), Shunts: []Shunt{bank}}
+	zero = pos
+	zero.Line = line(180e3, 0.20e-3, 3.0e-6, 0, 7.0e-12)
+	return pos, zero
+}
+
+// bandDenseTol bounds how far the band gain may lie above the maximum over 200,001
+// evenly spaced points of the band: the dense grid's step (≤ 1.4e-3 Hz here) against
+// the narrowest half-power width (4.8 Hz) leaves the gain within (step/width)² ≈ 1e-7.
+const bandDenseTol = 1e-6
+
+// TestBandGainWhateverGrid: the band gain of every watched harmonic, both sequences,
+// is the maximum of the continuous response over the band, edges included, on coarse,
+// odd-sized and logarithmic scan grids alike: it matches the library's own dense
+// evaluation of the band (200,001 points) from above within bandDenseTol.
+func TestBandGainWhateverGrid(t *testing.T) {
+	t.Parallel()
+	pos, zero := narrowNetworks()
+	dense := map[[2]int]float64{} // (order, zero?) -> dense maximum
+	for _, h := range DefaultWatch() {
+		net, z := pos, 0
+		if Triplen(h) {
+			net, z = zero, 1
+		}
+		f := 50 * float64(h)
+		best := 0.0
+		for _, p := range Scan(nil, net, LinearGrid(nil, f*(1-DefaultWatchBand), f*(1+DefaultWatchBand), 200001)) {
+			best = math.Max(best, p.Gain)
+		}
+		dense[[2]int{h, z}] = best
+	}
+	grids := []struct {
+		name  string
+		freqs []float64
+	}{
+		{"linear 30", LinearGrid(nil, 1, 2500, 30)},
+		{"linear 300", LinearGrid(nil, 1, 2500, 300)},
+		{"linear 301", LinearGrid(nil, 1, 2500, 301)},
+		{"linear 5000", LinearGrid(nil, 1, 2500, 5000)},
+		{"log 120", LogGrid(nil, 1, 2500, 120)},
+	}
+	for _, g := range grids {
+		t.Run(g.name, func(t *testing.T) {
+			t.Parallel()
+			pp, zp := Scan(nil, pos, g.freqs), Scan(nil, zero, g.freqs)
+			sc := Screen(pos, pp, Peaks(pos, pp), &zero, zp, Peaks(zero, zp),
+				ScreenSettings{Fundamental: 50, FMax: 2500, GainLimit: 7})
+			for _, r := range sc.Rows {
+				if !r.Watched {
+					continue
+				}
+				z := 0
+				if r.Sequence == Zero {
+					z = 1
+				}
+				want := dense[[2]int{r.Order, z}]
+				if r.BandGain < want*(1-1e-12) || r.BandGain > want*(1+bandDenseTol) {
+					t.Errorf("h%d (%s): band gain %.10g, dense maximum %.10g", r.Order, r.Sequence, r.BandGain, want)
+				}
+				if r.OverLimit != (want > 7) {
+					t.Errorf("h%d: over limit %v, dense maximum %.4g against 7", r.Order, r.OverLimit, want)
+				}
+			}
+		})
+	}
+}

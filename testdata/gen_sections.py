@@ -7,11 +7,14 @@ tomllib, python3-numpy). Writes testdata/sections_reference.csv.
 The network is solved by full nodal analysis with numpy.linalg.solve: one node per
 end and per junction of sections, each section stamped by its short-circuit
 admittance parameters (y11 = coth(gl)/Zc, y12 = -1/(Zc sinh(gl))), the source as its
-Norton equivalent, the line-connected receiving reactor as an R-L admittance. This is
+Norton equivalent, the line-connected receiving reactor as an R-L admittance, the
+receiving-end system ([receiving] short_circuit_mva, x_over_r) as an R-L admittance at
+the receiving node, its EMF shorted (unless [scan] far_system = false). This is
 another method than the chain (ABCD) products of freqscan. The study file is read
 with tomllib and converted here, independently of the Go loader:
   source: |Z| = V^2 / S_sc, R = |Z| / sqrt(1 + (X/R)^2), X = R (X/R), L = X / w0
   reactor: X = V^2 / Q at frequency_hz, L = X / w0, R = X / q_factor (in series)
+  receiving-end system: as the source, from its short-circuit level and X/R
 Frequencies: the study's linear scan grid (f_min 1 Hz default, f_max, points), every
 25th point. Columns: f_hz, gain (|Vr/E|), gain_line (|Vr/Vs|), z_in re, im (ohm).
 """
@@ -41,6 +44,13 @@ assert len(shunts) == 1 and shunts[0]["at"] == "receiving" and shunts[0]["connec
 XR = V * V / (shunts[0]["mvar"] * 1e6)
 RL_L, RL_R = XR / W0, XR / shunts[0]["q_factor"]
 assert st["receiving"]["load_mw"] == 0 and st["receiving"]["load_mvar"] == 0
+far = st["receiving"]
+YFAR = None
+if "short_circuit_mva" in far and st.get("scan", {}).get("far_system", True):
+    zf = V * V / (far["short_circuit_mva"] * 1e6)
+    RF = zf / math.sqrt(1 + far["x_over_r"] ** 2)
+    LF = RF * far["x_over_r"] / W0
+    YFAR = lambda s: 1 / (RF + s * LF)
 
 
 def solve(f):
@@ -61,7 +71,9 @@ def solve(f):
         Y[k, k + 1] += y12
         Y[k + 1, k] += y12
     Y[n - 1, n - 1] += 1 / (RL_R + s * RL_L)
-    # z_in: the line with its receiving reactor seen from the sending node
+    if YFAR is not None:
+        Y[n - 1, n - 1] += YFAR(s)
+    # z_in: the line with its receiving reactor (and far system) seen from the sending node
     rhs = np.zeros(n, dtype=complex)
     rhs[0] = 1.0
     v = np.linalg.solve(Y, rhs)

@@ -26,7 +26,7 @@ import (
 	"time"
 
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
-	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
+	"github.com/telegrapher/telegrapher/freqscan"
 )
 
 // openEndRiseScreenPU is the no-load receiving-end voltage (over the sending end) above
@@ -44,10 +44,14 @@ Screens every line of an inventory (a CSV file, one line per row, columns named 
 first row; see "Line inventories" in the README) and writes one summary table, worst
 first, to DIR/batch.csv and DIR/batch.html.
 
+The line columns are the [line] keys of a study file (l or x, c or b, and the
+zero-sequence r0, l0 or x0, c0 or b0, g0), read by the same loader with the same rules.
 Each row becomes a study with the defaults of a study file (scan 1 Hz to 50 harmonics,
 energisation by the numerical Laplace transform, a 1 pu step). For each line: the SIL,
 the open-end (Ferranti) rise, the first resonance of the gain |Vr/E| and its gain, the
-watched harmonic with the largest gain within its band, the open-end energisation peak,
+watched harmonic with the largest gain within its band (triplen harmonics on the
+zero-sequence network, or marked "positive-sequence only" without zero-sequence
+columns), the open-end energisation peak,
 and the flags: a watched harmonic over the gain limit (2.0), an energisation peak above
 2.0 pu, an open-end rise above 1.05 pu. "severity" is the largest of gain / limit,
 peak / 2.0 and rise / 1.05; the table is sorted by it, so the lines that most exceed a
@@ -126,6 +130,7 @@ type batchResult struct {
 	FirstGain      float64 // +Inf when unbounded
 	WorstOrder     int     // 0 = no watched harmonic in the band
 	WorstBandGain  float64
+	WorstSequence  string // the network the worst harmonic was screened on (freqscan.Sequence)
 	GainLimit      float64
 	EnergisePeakPU float64 // signed
 	EnergiseTMs    float64
@@ -135,8 +140,7 @@ type batchResult struct {
 
 // screenLine screens one row.
 func screenLine(file string, bl batchLine) (batchResult, error) {
-	name := fmt.Sprintf("%s: row %d", file, bl.Row)
-	st, err := study.Parse(name, bl.studyTOML())
+	st, err := bl.study(file)
 	if err != nil {
 		return batchResult{}, err
 	}
@@ -166,7 +170,7 @@ func screenLine(file string, bl batchLine) (batchResult, error) {
 	}
 	for _, h := range sc.Harmonics {
 		if h.Watched && (r.WorstOrder == 0 || h.BandGain > r.WorstBandGain) {
-			r.WorstOrder, r.WorstBandGain = h.Order, h.BandGain
+			r.WorstOrder, r.WorstBandGain, r.WorstSequence = h.Order, h.BandGain, h.Sequence
 		}
 	}
 	en, err := computeEnergise(st, "")
@@ -184,7 +188,7 @@ func screenLine(file string, bl batchLine) (batchResult, error) {
 	r.Severity = math.Max(ratio(r.OpenEndRisePU, openEndRiseScreenPU), ratio(math.Abs(r.EnergisePeakPU), energisePeakScreenPU))
 	for _, h := range sc.Harmonics {
 		if h.Watched && h.OverLimit {
-			r.Flags = append(r.Flags, fmt.Sprintf("h%d gain %s > %g", h.Order, fmtGain(h.BandGain), sc.GainLimit))
+			r.Flags = append(r.Flags, fmt.Sprintf("h%d%s gain %s > %g", h.Order, sequenceMark(h.Sequence), fmtGain(h.BandGain), sc.GainLimit))
 		}
 		if h.Watched && sc.GainLimit > 0 {
 			r.Severity = math.Max(r.Severity, ratio(h.BandGain, sc.GainLimit))
@@ -197,6 +201,19 @@ func screenLine(file string, bl batchLine) (batchResult, error) {
 		r.Flags = append(r.Flags, fmt.Sprintf("open-end rise %.3f pu > %.2f", r.OpenEndRisePU, openEndRiseScreenPU))
 	}
 	return r, nil
+}
+
+// sequenceMark words the network a triplen harmonic was screened on: " (zero
+// sequence)", or " (positive-sequence only)" for a line without zero-sequence data;
+// "" for the other harmonics.
+func sequenceMark(seq string) string {
+	switch freqscan.Sequence(seq) {
+	case freqscan.Zero:
+		return " (zero sequence)"
+	case freqscan.PositiveOnly:
+		return " (positive-sequence only)"
+	}
+	return ""
 }
 
 // screenInventory screens every line on up to jobs goroutines (0 = one per core) and
@@ -231,7 +248,7 @@ func screenInventory(file string, lines []batchLine, jobs int, progress func(int
 func batchTable(results []batchResult) (*report.Table, error) {
 	t := report.NewTable("rank", "row", "name", "severity", "sil_mw", "open_end_rise_pu",
 		"first_resonance_hz", "first_resonance_harmonic", "first_resonance_gain",
-		"worst_watched_harmonic", "worst_watched_gain", "gain_limit",
+		"worst_watched_harmonic", "worst_watched_gain", "worst_watched_sequence", "gain_limit",
 		"energise_peak_pu", "energise_t_peak_ms", "flags")
 	for i, r := range results {
 		first := []any{"", "", ""}
@@ -241,9 +258,9 @@ func batchTable(results []batchResult) (*report.Table, error) {
 				first[2] = "unbounded"
 			}
 		}
-		worst := []any{"", ""}
+		worst := []any{"", "", ""}
 		if r.WorstOrder > 0 {
-			worst = []any{r.WorstOrder, r.WorstBandGain}
+			worst = []any{r.WorstOrder, r.WorstBandGain, r.WorstSequence}
 			if math.IsInf(r.WorstBandGain, 1) {
 				worst[1] = "unbounded"
 			}
@@ -279,7 +296,7 @@ func batchView(results []batchResult) *report.Table {
 			first = fmt.Sprintf("h %.2f (%.4g Hz), gain %s", r.FirstHarmonic, r.FirstHz, g(r.FirstGain))
 		}
 		if r.WorstOrder > 0 {
-			worst = fmt.Sprintf("h%d, gain %s", r.WorstOrder, g(r.WorstBandGain))
+			worst = fmt.Sprintf("h%d%s, gain %s", r.WorstOrder, sequenceMark(r.WorstSequence), g(r.WorstBandGain))
 		}
 		flags := strings.Join(r.Flags, "; ")
 		if flags == "" {
@@ -309,7 +326,8 @@ func writeBatch(results []batchResult, file string, folder *outputFolder) error 
 		Files:   []string{"batch.csv"},
 		Notes: []string{
 			fmt.Sprintf("Screening levels: gain within ±10 %% of a watched harmonic (odd 3 to 25) against the gain limit; open-end energisation peak (1 pu step, numerical Laplace transform, far end open) against %.1f pu; open-end rise at the system frequency against %.2f pu.", energisePeakScreenPU, openEndRiseScreenPU),
-			"Each line uses the defaults of a study file; give a line its own study file for anything beyond the inventory's columns (zero-sequence data, loads, settings).",
+			"Triplen harmonics are screened on the zero-sequence network of a line whose row gives zero-sequence constants (r0, l0 or x0, c0 or b0), and marked positive-sequence only where it does not.",
+			"Each line uses the defaults of a study file; give a line its own study file for anything beyond the inventory's columns (loads, bus shunts, settings).",
 		}}
 	if flagged > 0 {
 		sec.Verdict = report.Flagged

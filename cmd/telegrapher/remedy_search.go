@@ -187,7 +187,9 @@ func newRemedySearch(st *study.Study, status *statusLine) (*remedySearch, error)
 
 // remedyStudy returns a copy of st with the candidate's changes: added line-connected
 // reactors in the positive- and zero-sequence networks (the loader gives the zero
-// sequence the same shunts, solidly earthed), the pre-insertion resistor, and
+// sequence the same shunts, solidly earthed or, for line-connected reactors, through
+// the end's neutral reactor, which added reactors share as in switching; the far
+// system stays as the study has it), the pre-insertion resistor, and
 // arresters at both line ends. st itself is not changed.
 func remedyStudy(st *study.Study, c remedyCandidate) *study.Study {
 	cp := *st

@@ -641,6 +641,14 @@ func (rr *reportRun) scanSection() (report.Section, error) {
 	}
 	sec.Facts = append(sec.Facts,
 		report.Fact{Name: "model", Value: res.Model},
+		report.Fact{Name: "in service, positive sequence", Value: strings.Join(res.Elements, "; ")})
+	if res.ZeroSequence != nil {
+		sec.Facts = append(sec.Facts, report.Fact{Name: "in service, zero sequence", Value: strings.Join(res.ZeroSequence.Elements, "; ")})
+	}
+	for _, l := range res.LeftOut {
+		sec.Facts = append(sec.Facts, report.Fact{Name: "left out", Value: l})
+	}
+	sec.Facts = append(sec.Facts,
 		report.Fact{Name: "grid", Value: fmt.Sprintf("%d points, %s, %g to %g Hz", len(res.Points), res.Grid, res.FMinHz, res.FMaxHz)},
 		report.Fact{Name: "gain limit, watch band", Value: fmt.Sprintf("%g, ±%.0f %%", res.GainLimit, res.WatchBandPct)},
 		report.Fact{Name: "planning levels", Value: res.PlanningSource})
@@ -695,7 +703,7 @@ func (rr *reportRun) scanSection() (report.Section, error) {
 		sec.Tables = append(sec.Tables, report.TableView{Caption: "Harmonic screening (watched harmonics and those with a background level)", Table: ht})
 	}
 	sec.Notes = []string{
-		"Gain is |Vr/E|, the receiving-end voltage over the source EMF, with every element in service; the background harmonic voltage at the sending bus is taken as the source EMF, so the receiving-end level is background × gain.",
+		"Gain is |Vr/E|, the receiving-end voltage over the source EMF, with the elements listed above in service (a receiving-end system is passive: its EMF shorted); the background harmonic voltage at the sending bus is taken as the source EMF, so the receiving-end level is background × gain.",
 		"Harmonics that are multiples of 3 are zero sequence in a balanced system: they are screened on the zero-sequence network where the study gives zero-sequence data, and marked positive-sequence only where it does not.",
 	}
 	p, err := report.ScanPlot(scanPlotData(rr.st, res))

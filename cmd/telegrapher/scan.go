@@ -32,8 +32,9 @@ func init() {
 		name:  "scan",
 		args:  "STUDY [--json] [--csv F] [--plot F] [--map F]",
 		short: "harmonic scan: voltage magnification, resonances, harmonic screening",
-		long: `Scans the network of the study (source, shunts, line, load, every element in
-service) over the frequency grid of [scan]: the gain |Vr/E| of the receiving-end voltage
+		long: `Scans the network of the study (source, shunts, line, load, and the receiving-end
+system of [receiving] short_circuit_mva unless scan.far_system = false; the output lists
+what is in) over the frequency grid of [scan]: the gain |Vr/E| of the receiving-end voltage
 over the source EMF, |Vr/Vs| and the driving-point impedances. It reports every resonance
 peak (frequency refined between grid points, harmonic order, gain, -3 dB bandwidth and Q),
 the parallel and series resonances of the driving-point impedances, and screens every
@@ -42,7 +43,13 @@ within +-scan.watch_band_pct of them exceeds scan.gain_limit, and each harmonic'
 receiving-end level (background x gain) is set against its planning level (default:
 IEC TR 61000-3-6 indicative HV-EHV levels). Harmonics that are multiples of 3 are zero
 sequence in a balanced system: they are screened on the zero-sequence network when the
-study gives zero-sequence data, and marked "positive-sequence only" otherwise.
+study gives zero-sequence data, and marked "positive-sequence only" otherwise; the
+zero-sequence network has the neutral reactors of [switching] (3 Xn under that end's
+line-connected reactors) and the receiving-end system times [receiving] x0_over_x1.
+
+The receiving-end system is passive for the harmonic transfer: its EMF is shorted and
+its impedance (from short_circuit_mva and x_over_r at voltage_kv) is in parallel at the
+receiving bus. energise and switching keep the far end open, without it.
 
 --map writes a heat map of the gain over frequency and source short-circuit level
 (scan.short_circuit_mva_range, X/R kept; default 0.25 to 4 times the study's level).
@@ -122,6 +129,10 @@ type scanResult struct {
 	Grid        string  `json:"grid"`
 	FMinHz      float64 `json:"f_min_hz"`
 	FMaxHz      float64 `json:"f_max_hz"`
+	// Elements lists what the positive-sequence network has in service, LeftOut what
+	// the study gives that the scan leaves out, and why.
+	Elements []string `json:"elements"`
+	LeftOut  []string `json:"left_out"`
 	// The positive sequence (the contract's points and peaks, at the top level).
 	Points              []scanPoint      `json:"points"`
 	Peaks               []scanPeak       `json:"peaks"`
@@ -149,6 +160,7 @@ type scanResult struct {
 
 // scanSequence is the result of one sequence network.
 type scanSequence struct {
+	Elements            []string    `json:"elements,omitempty"` // zero sequence: what its network has in service
 	Points              []scanPoint `json:"points"`
 	Peaks               []scanPeak  `json:"peaks"`
 	ImpedanceResonances []scanZRes  `json:"impedance_resonances"`
@@ -242,6 +254,7 @@ func computeScan(st *study.Study) (scanResult, error) {
 		FMinHz: sc.FMin, FMaxHz: sc.FMax, Caution: Caution,
 		PlanningSource: "IEC TR 61000-3-6 indicative HV-EHV planning levels (from memory) unless scan.planning_pct sets them",
 	}
+	res.Elements, res.LeftOut = scanElements(st, st.Network, false), scanLeftOut(st)
 	res.pos = freqscan.Scan(nil, st.Network, freqs)
 	res.posPeaks = freqscan.Peaks(st.Network, res.pos)
 	p := sequenceResult(st.Network, res.pos, res.posPeaks, f0)
@@ -253,6 +266,7 @@ func computeScan(st *study.Study) (scanResult, error) {
 		res.zero = freqscan.Scan(nil, *zeroNet, freqs)
 		res.zeroPeaks = freqscan.Peaks(*zeroNet, res.zero)
 		z := sequenceResult(*zeroNet, res.zero, res.zeroPeaks, f0)
+		z.Elements = scanElements(st, *zeroNet, true)
 		res.ZeroSequence = &z
 	}
 	res.screen = freqscan.Screen(st.Network, res.pos, res.posPeaks, zeroNet, res.zero, res.zeroPeaks, freqscan.ScreenSettings{
@@ -303,7 +317,87 @@ func scanModel(st *study.Study) string {
 		src = "ideal source (zero impedance)"
 	}
 	return src + "; shunt and load inductances and capacitances fixed (reactances scale with frequency); " +
-		line + "; exact long-line two-port; every element in service"
+		line + "; exact long-line two-port; the elements listed in service"
+}
+
+// scanElements lists what the network n (the study's positive-sequence network, or its
+// zero-sequence one when zero is set) has in service, in words for the output.
+func scanElements(st *study.Study, n freqscan.Network, zero bool) []string {
+	f0, v := st.Frequency, st.Voltage
+	w := 2 * math.Pi * f0
+	var out []string
+	switch {
+	case n.Source.Ideal():
+		out = append(out, "source: ideal (zero impedance)")
+	case zero:
+		out = append(out, fmt.Sprintf("source: R %.4g ohm, X %.4g ohm at %g Hz (x0_over_x1 %g)", n.Source.R, w*n.Source.L, f0, st.Source.X0OverX1))
+	case st.Source.ShortCircuitVA > 0:
+		out = append(out, fmt.Sprintf("source: %g MVA, X/R %g (R %.4g ohm, X %.4g ohm)", st.Source.ShortCircuitVA/1e6, st.Source.XOverR, n.Source.R, w*n.Source.L))
+	default:
+		out = append(out, fmt.Sprintf("source: R %.4g ohm, X %.4g ohm at %g Hz", n.Source.R, w*n.Source.L, f0))
+	}
+	length := 0.0
+	for _, l := range n.Line {
+		length += l.Length
+	}
+	line := fmt.Sprintf("line: %g km", length/1e3)
+	if len(n.Line) > 1 {
+		line += fmt.Sprintf(" in %d sections", len(n.Line))
+	}
+	if zero {
+		line += ", zero-sequence constants"
+	}
+	out = append(out, line)
+	for _, sh := range n.Shunts {
+		kind := "capacitor"
+		q := v * v * w * sh.C
+		if sh.L > 0 {
+			kind, q = "reactor", v*v/(w*sh.L)
+		}
+		conn := "bus"
+		if sh.OnLine {
+			conn = "line"
+		}
+		e := fmt.Sprintf("%s-connected %.4g Mvar %s at the %s end", conn, q/1e6, kind, sh.End)
+		if sh.Name != "" {
+			e = sh.Name + ": " + e
+		}
+		if zero && sh.OnLine && sh.L > 0 && n.ReactorNeutral[sh.End] > 0 {
+			e += fmt.Sprintf(", star point through the %s-end neutral reactor (3 Xn = %.4g ohm)", sh.End, w*n.ReactorNeutral[sh.End])
+		} else if zero {
+			e += ", solidly earthed"
+		}
+		out = append(out, e)
+	}
+	if !zero && (st.Receiving.LoadW > 0 || st.Receiving.LoadVar != 0) {
+		out = append(out, fmt.Sprintf("load: %g MW, %g Mvar at the receiving bus (constant impedance)", st.Receiving.LoadW/1e6, st.Receiving.LoadVar/1e6))
+	}
+	if !n.Far.Ideal() {
+		e := fmt.Sprintf("receiving-end system: %g MVA, X/R %g, passive (EMF shorted) at the receiving bus: R %.4g ohm, X %.4g ohm",
+			st.Receiving.ShortCircuitVA/1e6, st.Receiving.XOverR, n.Far.R, w*n.Far.L)
+		if zero {
+			e = fmt.Sprintf("receiving-end system, passive (EMF shorted): R %.4g ohm, X %.4g ohm (x0_over_x1 %g)", n.Far.R, w*n.Far.L, st.Receiving.X0OverX1)
+		}
+		out = append(out, e)
+	}
+	return out
+}
+
+// scanLeftOut lists what the study gives that the scan leaves out.
+func scanLeftOut(st *study.Study) []string {
+	out := []string{}
+	if st.Receiving.ShortCircuitVA > 0 && !st.Scan.FarSystem {
+		out = append(out, "receiving-end system ([receiving] short_circuit_mva): left out by scan.far_system = false")
+	}
+	if st.ZeroNetwork != nil && (st.Receiving.LoadW > 0 || st.Receiving.LoadVar != 0) {
+		out = append(out, "load: not in the zero-sequence network (no earthed star point)")
+	}
+	if st.ZeroNetwork == nil {
+		if l := st.SwitchingOptions().NeutralReactorL; l[0] > 0 || l[1] > 0 {
+			out = append(out, "neutral reactors of [switching]: no zero-sequence data, so no zero-sequence network to put them in")
+		}
+	}
+	return out
 }
 
 func sequenceResult(n freqscan.Network, pts []freqscan.Point, peaks []freqscan.Peak, f0 float64) scanSequence {
@@ -531,6 +625,20 @@ func printScan(w io.Writer, st *study.Study, res scanResult) {
 	}
 	fmt.Fprintf(w, "Harmonic scan: %s\n", title)
 	fmt.Fprintf(w, "Model: %s.\n", res.Model)
+	list := func(head string, items []string) {
+		if len(items) == 0 {
+			return
+		}
+		fmt.Fprintln(w, head)
+		for _, e := range items {
+			fmt.Fprintf(w, "  - %s\n", e)
+		}
+	}
+	list("In service, positive sequence:", res.Elements)
+	if res.ZeroSequence != nil {
+		list("In service, zero sequence:", res.ZeroSequence.Elements)
+	}
+	list("Left out:", res.LeftOut)
 	fmt.Fprintf(w, "Grid: %d points, %s, %g to %g Hz (harmonic %.3g to %.3g of %g Hz).\n\n",
 		len(res.pos), res.Grid, res.FMinHz, res.FMaxHz, res.FMinHz/f0, res.FMaxHz/f0, f0)
 	printPeaks := func(name string, s scanSequence) {

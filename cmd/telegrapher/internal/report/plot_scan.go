@@ -225,23 +225,82 @@ func binOf(g float64) int {
 	return len(gainBins) - 1
 }
 
-type binPalette struct{}
-
-func (binPalette) Colors() []color.Color {
-	c := make([]color.Color, len(gainBins))
-	for i, b := range gainBins {
-		c[i] = b.c
-	}
-	return c
+// classMap draws the heat map as vector rectangles, one per run of cells of the same
+// colour class along a row (a few hundred rather than one per cell), rows on log10 of
+// the short-circuit level. Vector cells fill the data area exactly in every viewer;
+// an embedded raster is stretched by some and letterboxed by others.
+type classMap struct {
+	xe, ye []float64 // cell edges: harmonic order, log10(MVA)
+	class  [][]int   // class[row][column]
 }
 
-// scanGrid is the heat map's grid, rows on log10 of the short-circuit level.
-type scanGrid struct{ d ScanMapData }
+// cellEdges returns the edges of cells centred on c (increasing): midpoints between
+// centres, and half a step beyond the first and last.
+func cellEdges(c []float64) []float64 {
+	e := make([]float64, len(c)+1)
+	for i := 1; i < len(c); i++ {
+		e[i] = (c[i-1] + c[i]) / 2
+	}
+	e[0] = c[0] - (c[1]-c[0])/2
+	e[len(c)] = c[len(c)-1] + (c[len(c)-1]-c[len(c)-2])/2
+	return e
+}
 
-func (g scanGrid) Dims() (c, r int)   { return len(g.d.Harmonic), len(g.d.ShortCircuit) }
-func (g scanGrid) X(c int) float64    { return g.d.Harmonic[c] }
-func (g scanGrid) Y(r int) float64    { return math.Log10(g.d.ShortCircuit[r]) }
-func (g scanGrid) Z(c, r int) float64 { return float64(binOf(g.d.Gain[r][c])) }
+func newClassMap(d ScanMapData) classMap {
+	ys := make([]float64, len(d.ShortCircuit))
+	for i, v := range d.ShortCircuit {
+		ys[i] = math.Log10(v)
+	}
+	m := classMap{xe: cellEdges(d.Harmonic), ye: cellEdges(ys)}
+	for _, row := range d.Gain {
+		cls := make([]int, len(row))
+		for j, g := range row {
+			cls[j] = binOf(g)
+		}
+		m.class = append(m.class, cls)
+	}
+	return m
+}
+
+// seam is how far each rectangle reaches under its right and upper neighbours, so
+// that anti-aliased edges leave no hairline gaps between cells.
+const seam = vg.Length(0.4)
+
+// Plot implements plot.Plotter.
+func (m classMap) Plot(c draw.Canvas, p *plot.Plot) {
+	trX, trY := p.Transforms(&c)
+	last := len(m.xe) - 1
+	for r, row := range m.class {
+		y0, y1 := trY(m.ye[r]), trY(m.ye[r+1])
+		if r+1 < len(m.class) {
+			y1 += seam
+		}
+		for j := 0; j < len(row); {
+			k := j
+			for k+1 < len(row) && row[k+1] == row[j] {
+				k++
+			}
+			x0, x1 := trX(m.xe[j]), trX(m.xe[k+1])
+			if k+1 < last {
+				x1 += seam
+			}
+			var pa vg.Path
+			pa.Move(vg.Point{X: x0, Y: y0})
+			pa.Line(vg.Point{X: x1, Y: y0})
+			pa.Line(vg.Point{X: x1, Y: y1})
+			pa.Line(vg.Point{X: x0, Y: y1})
+			pa.Close()
+			c.SetColor(gainBins[row[j]].c)
+			c.Fill(pa)
+			j = k + 1
+		}
+	}
+}
+
+// DataRange implements plot.DataRanger: the outer cell edges.
+func (m classMap) DataRange() (xmin, xmax, ymin, ymax float64) {
+	return m.xe[0], m.xe[len(m.xe)-1], m.ye[0], m.ye[len(m.ye)-1]
+}
 
 // mvaTicks labels the log10(MVA) axis in MVA.
 type mvaTicks struct{}
@@ -271,10 +330,13 @@ func ScanMapPlot(d ScanMapData) (*plot.Plot, error) {
 	p.Title.Text = d.Title
 	p.X.Label.Text = "harmonic order (f / system frequency)"
 	p.Y.Label.Text = "source short-circuit level (MVA, X/R kept)"
-	hm := plotter.NewHeatMap(scanGrid{d}, binPalette{})
-	hm.Min, hm.Max = 0, float64(len(gainBins)-1)
-	hm.Rasterized = true
-	p.Add(hm)
+	for i, row := range d.Gain {
+		if len(row) != len(d.Harmonic) {
+			return nil, fmt.Errorf("scan map: row %d has %d gains for %d frequencies", i, len(row), len(d.Harmonic))
+		}
+	}
+	cm := newClassMap(d)
+	p.Add(cm)
 	for _, b := range gainBins {
 		s, err := plotter.NewScatter(plotter.XYs{})
 		if err != nil {
@@ -327,8 +389,9 @@ func ScanMapPlot(d ScanMapData) (*plot.Plot, error) {
 	}
 	p.Y.Tick.Marker = mvaTicks{}
 	p.X.Tick.Marker = harmonicTicks{upTo: d.Harmonic[len(d.Harmonic)-1]}
-	// Blank room right of the map for the legend.
-	x0, x1 := d.Harmonic[0], d.Harmonic[len(d.Harmonic)-1]
+	// The map fills the data area from its first cell edge; blank room right of it
+	// (a sixth of the width) for the legend.
+	x0, x1 := cm.xe[0], cm.xe[len(cm.xe)-1]
 	p.X.Min, p.X.Max = x0, x1+0.2*(x1-x0)
 	p.Legend.Top = true
 	p.Legend.TextStyle.Font.Size = vg.Points(8)
@@ -358,6 +421,9 @@ func (ht harmonicTicks) Ticks(min, max float64) []plot.Tick {
 	}
 	var t []plot.Tick
 	for v := math.Ceil(min/minor) * minor; v <= max+1e-9; v += minor {
+		if v == 0 {
+			v = 0 // not -0 (the ceiling of a small negative start), which prints "-0"
+		}
 		tk := plot.Tick{Value: v}
 		if math.Mod(v, major) == 0 {
 			tk.Label = fmt.Sprintf("%g", v)

@@ -134,8 +134,8 @@ var (
 	lineOnlyKeys  = []string{"sections"}
 	sourceKeys    = []string{"short_circuit_mva", "x_over_r", "r_ohm", "l_mh", "x_ohm", "x0_over_x1"}
 	shuntKeys     = []string{"name", "at", "connection", "mvar", "q_factor"}
-	receivingKeys = []string{"load_mw", "load_mvar", "short_circuit_mva", "x_over_r"}
-	scanKeys      = []string{"f_min_hz", "f_max_hz", "points", "grid", "watch_harmonics", "gain_limit", "watch_band_pct", "background_pct", "planning_pct", "short_circuit_mva_range", "steps"}
+	receivingKeys = []string{"load_mw", "load_mvar", "short_circuit_mva", "x_over_r", "x0_over_x1"}
+	scanKeys      = []string{"f_min_hz", "f_max_hz", "points", "grid", "watch_harmonics", "gain_limit", "watch_band_pct", "background_pct", "planning_pct", "short_circuit_mva_range", "steps", "far_system"}
 	energiseKeys  = []string{"waveform", "close_deg", "trapped_pu", "duration_ms", "time_step_us", "method"}
 )
 

@@ -228,6 +228,18 @@ func (ld *Loader) receiving(t *Table) {
 		rs.ShortCircuitVA, rs.XOverR = s*1e6, k
 		ld.Note("receiving.short_circuit_mva", fmt.Sprintf("%g MVA, X/R %g", s, k), "given")
 	}
+	rs.X0OverX1 = 1
+	if k, ok := t.Float("x0_over_x1"); ok {
+		t.Positive("x0_over_x1", k)
+		t.AtMost("x0_over_x1", k, 1000)
+		if !ld.Failed() && rs.ShortCircuitVA == 0 {
+			t.Errorf("x0_over_x1", "applies to the receiving-end system: give short_circuit_mva and x_over_r with it")
+		}
+		rs.X0OverX1 = k
+		ld.Note("receiving.x0_over_x1", fmt.Sprintf("%g", k), "given")
+	} else if rs.ShortCircuitVA > 0 {
+		ld.Note("receiving.x0_over_x1", "1", "default")
+	}
 }
 
 // build assembles the positive- and zero-sequence networks.
@@ -238,6 +250,12 @@ func (ld *Loader) build() {
 	st := ld.Study
 	st.Network.Source = freqscan.Source{R: st.Source.R, L: st.Source.L}
 	st.Network.Line = st.Line
+	// The receiving-end system, passive (EMF shorted) for the harmonic transfer from
+	// the source: R-L from its short-circuit level and X/R, as the source.
+	rs := st.Receiving
+	if rs.ShortCircuitVA > 0 {
+		st.Network.Far = freqscan.SourceAt(rs.ShortCircuitVA, st.Voltage, rs.XOverR, st.Frequency)
+	}
 	if st.Zero == nil {
 		ld.Note("line (zero sequence)", "not given: triplen harmonics and switching need r0, l0|x0, c0|b0", "absent")
 		return
@@ -247,9 +265,14 @@ func (ld *Loader) build() {
 		Source: freqscan.Source{R: st.Source.R * k, L: st.Source.L * k},
 		Line:   st.Zero,
 		Shunts: append([]freqscan.Shunt(nil), st.Network.Shunts...),
+		Far:    freqscan.Source{R: st.Network.Far.R * rs.X0OverX1, L: st.Network.Far.L * rs.X0OverX1},
 	}
 	st.ZeroNetwork = &zn
-	ld.Note("zero-sequence network", fmt.Sprintf("source impedance x %g, the same shunts (solidly earthed), no load", k), "built")
+	far := ""
+	if rs.ShortCircuitVA > 0 {
+		far = fmt.Sprintf(", the receiving-end system impedance x %g", rs.X0OverX1)
+	}
+	ld.Note("zero-sequence network", fmt.Sprintf("source impedance x %g, the same shunts (solidly earthed unless [switching] gives a neutral reactor), no load%s", k, far), "built")
 }
 
 // scan reads [scan].
@@ -352,6 +375,22 @@ func (ld *Loader) scan(t *Table) {
 	sc.ShortCircuitSteps = int(steps)
 	if sc.ShortCircuitRange[1] > 0 || ok {
 		note("steps", strconv.Itoa(sc.ShortCircuitSteps), ok)
+	}
+	far, ok := t.Bool("far_system")
+	sc.FarSystem = far || !ok
+	switch {
+	case ld.Study.Receiving.ShortCircuitVA == 0:
+		if ok {
+			note("far_system", fmt.Sprintf("%v (no receiving-end system given: [receiving] short_circuit_mva)", far), ok)
+		}
+	case sc.FarSystem:
+		note("far_system", "true: the receiving-end system is in the scan", ok)
+	default:
+		note("far_system", "false: the receiving-end system is left out of the scan", ok)
+		ld.Study.Network.Far = freqscan.Source{}
+		if ld.Study.ZeroNetwork != nil {
+			ld.Study.ZeroNetwork.Far = freqscan.Source{}
+		}
 	}
 }
 

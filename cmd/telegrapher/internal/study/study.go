@@ -17,7 +17,7 @@ type Study struct {
 	Line propagation.Cascade // positive sequence, from the sending end
 	Zero propagation.Cascade // zero sequence; nil without zero-sequence data
 
-	Network     freqscan.Network  // positive sequence, every element in service
+	Network     freqscan.Network  // positive sequence, every element in service (far system too, unless scan.far_system = false)
 	ZeroNetwork *freqscan.Network // zero sequence; nil without zero-sequence data
 
 	Source    SourceSpec
@@ -49,6 +49,7 @@ type ReceivingSpec struct {
 	LoadW, LoadVar float64 // constant-impedance load at Voltage (three-phase W and var)
 	ShortCircuitVA float64 // receiving-end system short-circuit level, VA; 0 = not given
 	XOverR         float64 // its X/R; 0 = not given
+	X0OverX1       float64 // its zero- over positive-sequence impedance; default 1
 }
 
 // ScanSettings is [scan] in SI units.
@@ -65,6 +66,10 @@ type ScanSettings struct {
 
 	ShortCircuitRange [2]float64 // VA; zero = no source-strength map
 	ShortCircuitSteps int
+
+	// FarSystem: the receiving-end system ([receiving] short_circuit_mva) is in the
+	// scanned networks (default true); false leaves it out (Network.Far cleared).
+	FarSystem bool
 }
 
 // EnergiseSettings is [energise] in SI units.

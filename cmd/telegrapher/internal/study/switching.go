@@ -72,6 +72,14 @@ func init() {
 			}
 			ld.Study.Switching = set
 			ld.Study.SetSwitchingOptions(opt)
+			// A neutral reactor Ln under a line-connected reactor bank adds 3·Ln to
+			// the bank's zero-sequence impedance (all three phase currents return
+			// through it); the positive sequence does not see it.
+			if zn := ld.Study.ZeroNetwork; zn != nil {
+				for e, l := range opt.NeutralReactorL {
+					zn.ReactorNeutral[e] = 3 * l
+				}
+			}
 			for _, e := range seen {
 				ld.Note(e.Key, e.Value, e.How)
 			}
