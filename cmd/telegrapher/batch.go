@@ -179,7 +179,7 @@ func screenLine(file string, bl batchLine) (batchResult, error) {
 			r.Severity = math.Max(r.Severity, ratio(h.BandGain, sc.GainLimit))
 		}
 	}
-	if math.Abs(r.EnergisePeakPU) > energisePeakScreenPU {
+	if over, _ := energiseOver(en, energiseLimit()); over {
 		r.Flags = append(r.Flags, fmt.Sprintf("energisation %.2f pu > %.1f", math.Abs(r.EnergisePeakPU), energisePeakScreenPU))
 	}
 	if r.OpenEndRisePU > openEndRiseScreenPU {

@@ -169,21 +169,24 @@ func savePlotAs(p *plot.Plot, w, h vg.Length, path, flagName string) error {
 // (method, peak_pu, t_peak_ms, peak_sending_pu, t_ms, v_receiving_pu, v_sending_pu),
 // the rest are extras.
 type energiseResult struct {
-	Method         string   `json:"method"`
-	PeakPU         float64  `json:"peak_pu"` // signed receiving-end extreme
-	TPeakMs        float64  `json:"t_peak_ms"`
-	PeakSendingPU  float64  `json:"peak_sending_pu"`
-	TPeakSendingMs float64  `json:"t_peak_sending_ms"`
-	PeakKV         float64  `json:"peak_kv"` // the receiving-end peak in kV (signed)
-	BaseKV         float64  `json:"base_kv"` // 1 pu: peak phase-to-earth EMF, kV
-	Waveform       string   `json:"waveform"`
-	CloseDeg       float64  `json:"close_deg"`
-	TrappedPU      float64  `json:"trapped_pu"`
-	DurationMs     float64  `json:"duration_ms"`
-	TimeStepUs     float64  `json:"time_step_us"`
-	TravelTimeMs   float64  `json:"travel_time_ms"`
-	Limits         string   `json:"limits"`
-	Notes          []string `json:"notes"`
+	Method         string  `json:"method"`
+	PeakPU         float64 `json:"peak_pu"` // signed receiving-end extreme
+	TPeakMs        float64 `json:"t_peak_ms"`
+	PeakSendingPU  float64 `json:"peak_sending_pu"`
+	TPeakSendingMs float64 `json:"t_peak_sending_ms"`
+	PeakKV         float64 `json:"peak_kv"` // the receiving-end peak in kV (signed)
+	BaseKV         float64 `json:"base_kv"` // 1 pu: peak phase-to-earth EMF, kV
+	Waveform       string  `json:"waveform"`
+	CloseDeg       float64 `json:"close_deg"`
+	TrappedPU      float64 `json:"trapped_pu"`
+	DurationMs     float64 `json:"duration_ms"`
+	TimeStepUs     float64 `json:"time_step_us"`
+	TravelTimeMs   float64 `json:"travel_time_ms"`
+	Limits         string  `json:"limits"`
+	// FrontOvershootPU bounds how far the method's smoothing of wavefronts may carry
+	// a peak beyond the exact waveform (the Laplace window; 0 for the others).
+	FrontOvershootPU float64  `json:"front_overshoot_pu"`
+	Notes            []string `json:"notes"`
 
 	Spectrum   energiseSpectrum    `json:"spectrum"`
 	Resonances []energiseResonance `json:"scan_resonances"`
@@ -321,7 +324,7 @@ func runMethod(st *study.Study, method string, e waves.Energisation) (*waves.Wav
 		}
 	case "laplace":
 		w, err = waves.Laplace(net, e, waves.LaplaceOptions{})
-		limits = "numerical Laplace transform: linear network, every element at its frequency-dependent value; the window smooths wavefronts over a few time steps"
+		limits = fmt.Sprintf("numerical Laplace transform: linear network, every element at its frequency-dependent value; the window smooths wavefronts over about two time steps and overshoots a jump by at most %.2g %% of it", waves.LaplaceFrontOvershoot*100)
 	default:
 		return nil, nil, "", usagef("%s: energise.method: must be lattice, bergeron or laplace, got %q", st.File, method)
 	}
@@ -363,20 +366,21 @@ func computeEnergise(st *study.Study, method string) (energiseResult, error) {
 	}
 	base := st.Voltage * math.Sqrt2 / math.Sqrt(3) / 1e3
 	res := energiseResult{
-		Method:       method,
-		BaseKV:       base,
-		Waveform:     e.Excitation.String(),
-		CloseDeg:     e.CloseDeg,
-		TrappedPU:    e.TrappedPU,
-		DurationMs:   e.Duration * 1e3,
-		TimeStepUs:   w.Step * 1e6,
-		TravelTimeMs: travelTime(st) * 1e3,
-		Limits:       limits,
-		Notes:        w.Notes,
-		VReceivingPU: w.Receiving,
-		VSendingPU:   w.Sending,
-		VMiddlePU:    w.Middle,
-		diagram:      d,
+		Method:           method,
+		BaseKV:           base,
+		Waveform:         e.Excitation.String(),
+		CloseDeg:         e.CloseDeg,
+		TrappedPU:        e.TrappedPU,
+		DurationMs:       e.Duration * 1e3,
+		TimeStepUs:       w.Step * 1e6,
+		TravelTimeMs:     travelTime(st) * 1e3,
+		Limits:           limits,
+		FrontOvershootPU: w.Overshoot,
+		Notes:            w.Notes,
+		VReceivingPU:     w.Receiving,
+		VSendingPU:       w.Sending,
+		VMiddlePU:        w.Middle,
+		diagram:          d,
 	}
 	if e.Excitation != waves.Sine {
 		res.CloseDeg = 0
