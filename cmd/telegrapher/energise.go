@@ -93,20 +93,20 @@ overvoltages (no surge arresters).`,
 					res.Compare = cmp
 				}
 				if *diagramPath != "" {
-					d := res.diagram
+					d, note, err := latticeDiagram(st, res)
+					if err != nil {
+						return err
+					}
 					if d == nil {
-						lat, err := computeEnergise(st, "lattice")
-						if err != nil {
-							var ue *usageError
-							if errors.As(err, &ue) {
-								return usagef("%v (--diagram draws the lattice diagram)", err)
-							}
-							return err
-						}
-						d = lat.diagram
+						return usagef("%s: --diagram %s: %s", st.File, *diagramPath, note)
+					}
+					title := "Lattice diagram: " + studyTitle(st)
+					if note != "" {
+						res.Notes = append(res.Notes, "--diagram: "+note)
+						title = "Lattice diagram of the line alone (ideal source): " + studyTitle(st)
 					}
 					p, err := report.LatticePlot(report.LatticePlotData{
-						Title:    "Lattice diagram: " + studyTitle(st),
+						Title:    title,
 						Diagram:  d,
 						Sections: sectionNames(st),
 						Sine:     st.Energise.Waveform == "sine",
@@ -144,6 +144,45 @@ overvoltages (no surge arresters).`,
 			}
 		},
 	})
+}
+
+// lineAloneNote says what a lattice diagram of the line alone shows.
+const lineAloneNote = "the lattice method treats only a resistive source without shunts, so the lattice diagram shows the line alone, energised from an ideal source: its travel times and reflections, not the study's source and shunts"
+
+// latticeDiagram returns the lattice diagram of the energisation: res's own when it
+// was computed by the lattice method, else the study's by the lattice method, else,
+// when the lattice method cannot treat the study's source or shunts, the line alone
+// from an ideal source with a note saying so. When even the line alone cannot be
+// drawn, d is nil and note says why, in terms of the diagram (no advice to use
+// another method: a diagram was asked for).
+func latticeDiagram(st *study.Study, res energiseResult) (d *waves.LatticeDiagram, note string, err error) {
+	if res.diagram != nil {
+		return res.diagram, "", nil
+	}
+	lat, err := computeEnergise(st, "lattice")
+	if err == nil {
+		return lat.diagram, "", nil
+	}
+	if !cannotRun(err) {
+		return nil, "", err
+	}
+	alone := *st
+	alone.Network.Source = freqscan.Source{}
+	alone.Network.Shunts = nil
+	lat, err = computeEnergise(&alone, "lattice")
+	switch {
+	case err == nil:
+		return lat.diagram, lineAloneNote, nil
+	case cannotRun(err):
+		msg := err.Error()
+		if i := strings.Index(msg, "cannot treat this study: "); i >= 0 {
+			msg = msg[i+len("cannot treat this study: "):]
+		}
+		msg = strings.NewReplacer("; shorten the duration or use bergeron or laplace", "; shorten energise.duration_ms",
+			" (use bergeron or laplace)", "").Replace(msg)
+		return nil, "lattice diagram not drawn: " + msg, nil
+	}
+	return nil, "", err
 }
 
 func validMethod(m string) bool { return m == "lattice" || m == "bergeron" || m == "laplace" }

@@ -220,3 +220,46 @@ func TestEnergiseSpectrumAndSign(t *testing.T) {
 		t.Errorf("peak_pu %.4f: closing at 270° should peak below −1 pu", s.Peak)
 	}
 }
+
+// --diagram on a study the lattice method cannot treat (an inductive source and a
+// line-connected reactor) draws the line alone from an ideal source, as the report
+// does, and says so; it never advises another method where a diagram was asked for.
+func TestEnergiseDiagramInductiveSource(t *testing.T) {
+	t.Parallel()
+	path := writeStudy(t, `
+frequency_hz = 50
+voltage_kv = 400
+[line]
+length_km = 300
+r_ohm_per_km = 0.03
+l_mh_per_km = 0.95
+c_nf_per_km = 12
+[source]
+short_circuit_mva = 10000
+x_over_r = 12
+[[shunt]]
+at = "receiving"
+connection = "line"
+mvar = 100
+`)
+	for _, json := range []bool{false, true} {
+		svg := filepath.Join(t.TempDir(), "lattice.svg")
+		args := []string{"energise", path, "--diagram", svg}
+		if json {
+			args = append(args, "--json")
+		}
+		code, out, errs := runCLI(args...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", args, code, errs)
+		}
+		if b, err := os.ReadFile(svg); err != nil || !bytes.Contains(b, []byte("line alone")) {
+			t.Errorf("%v: no diagram of the line alone written (%v)", args, err)
+		}
+		if !strings.Contains(out, "the lattice diagram shows the line alone, energised from an ideal source") {
+			t.Errorf("%v: output does not say the diagram is of the line alone:\n%s", args, out)
+		}
+		if strings.Contains(out+errs, "use bergeron or laplace") {
+			t.Errorf("%v: advises another method for a diagram:\n%s%s", args, out, errs)
+		}
+	}
+}

@@ -38,7 +38,6 @@ import (
 
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
-	"github.com/telegrapher/telegrapher/freqscan"
 )
 
 // reportMarker is the small file that marks a folder as written by telegrapher, so a
@@ -928,26 +927,12 @@ func (rr *reportRun) energiseSection() (report.Section, error) {
 // can treat it, otherwise of the line alone from an ideal source (travel times and
 // reflections of the line, said so in the note).
 func (rr *reportRun) latticeFigure(res energiseResult) (*report.Figure, string, error) {
-	d, note := res.diagram, ""
-	if d == nil {
-		lat, err := computeEnergise(rr.st, "lattice")
-		if err != nil && !cannotRun(err) {
-			return nil, "", err
-		}
-		if err != nil {
-			alone := *rr.st
-			alone.Network.Source = freqscan.Source{}
-			alone.Network.Shunts = nil
-			lat, err = computeEnergise(&alone, "lattice")
-			if err != nil {
-				if cannotRun(err) {
-					return nil, "lattice diagram not drawn: " + err.Error(), nil
-				}
-				return nil, "", err
-			}
-			note = "The lattice method treats only a resistive source without shunts, so the lattice diagram shows the line alone, energised from an ideal source: its travel times and reflections, not the study's source and reactors."
-		}
-		d = lat.diagram
+	d, note, err := latticeDiagram(rr.st, res)
+	if err != nil {
+		return nil, "", err
+	}
+	if note != "" {
+		note = strings.ToUpper(note[:1]) + note[1:] + "."
 	}
 	if d == nil {
 		return nil, note, nil
