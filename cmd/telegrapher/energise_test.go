@@ -263,3 +263,67 @@ mvar = 100
 		}
 	}
 }
+
+// --compare explains a difference by its cause. On a line from geometry (constants
+// varying with frequency) Bergeron, at constants of the system frequency, and the
+// frequency-dependent Laplace transform differ away from the wavefronts too: the
+// output must say so and name frequency-dependent damping, not blame the wavefronts.
+// On a lossless line of constant parameters the methods are exact alike (identity:
+// lattice = Bergeron = Laplace) and differ only at the wavefronts.
+func TestEnergiseCompareCause(t *testing.T) {
+	t.Parallel()
+	lossless := writeStudy(t, `
+frequency_hz = 50
+voltage_kv = 400
+[line]
+length_km = 100
+r_ohm_per_km = 0
+l_mh_per_km = 0.95
+c_nf_per_km = 12
+[source]
+r_ohm = 50
+l_mh = 0
+`)
+	for _, c := range []struct {
+		name, path   string
+		atWavefronts bool
+		says         string
+	}{
+		{"geometry", filepath.Join("..", "..", "testdata", "geometry_tower_400kv.toml"), false, "vary with frequency"},
+		{"lossless", lossless, true, "concentrates at the wavefronts"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			code, out, errs := runCLI("energise", c.path, "--compare")
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			if !strings.Contains(out, c.says) {
+				t.Errorf("comparison does not say %q:\n%s", c.says, out)
+			}
+			if !c.atWavefronts && strings.Contains(out, "concentrate") {
+				t.Errorf("blames the wavefronts for a frequency-dependent difference:\n%s", out)
+			}
+			code, js, errs := runCLI("energise", c.path, "--compare", "--json")
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			var doc struct {
+				Compare struct {
+					Pairs []energisePair `json:"pairs"`
+				} `json:"compare"`
+			}
+			if err := json.Unmarshal([]byte(js), &doc); err != nil {
+				t.Fatal(err)
+			}
+			if len(doc.Compare.Pairs) == 0 {
+				t.Fatal("no pairs compared")
+			}
+			for _, p := range doc.Compare.Pairs {
+				if p.AtWavefronts != c.atWavefronts {
+					t.Errorf("%s vs %s: at_wavefronts %v, want %v (away rms %.3g pu, near fronts largest %.3g pu)", p.A, p.B, p.AtWavefronts, c.atWavefronts, p.AwayRMSDiffPU, p.FrontMaxDiffPU)
+				}
+			}
+		})
+	}
+}
