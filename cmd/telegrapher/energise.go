@@ -219,6 +219,7 @@ type energiseResult struct {
 	CloseDeg       float64 `json:"close_deg"`
 	TrappedPU      float64 `json:"trapped_pu"`
 	DurationMs     float64 `json:"duration_ms"`
+	DurationHow    string  `json:"duration_how"` // "given", or "default: " and the bound that decided
 	TimeStepUs     float64 `json:"time_step_us"`
 	TravelTimeMs   float64 `json:"travel_time_ms"`
 	Limits         string  `json:"limits"`
@@ -311,8 +312,9 @@ type energisePair struct {
 	Cause          string  `json:"cause"`
 }
 
-// energisation returns the study's [energise] settings for package waves.
-func energisation(st *study.Study) waves.Energisation {
+// energisation returns the study's [energise] settings for package waves, and how
+// the duration was chosen ("given", or the default's reason, see energiseDuration).
+func energisation(st *study.Study) (waves.Energisation, string) {
 	e := waves.Energisation{
 		Excitation: waves.Step,
 		Omega:      2 * math.Pi * st.Frequency,
@@ -324,7 +326,104 @@ func energisation(st *study.Study) waves.Energisation {
 	if st.Energise.Waveform == "sine" {
 		e.Excitation = waves.Sine
 	}
-	return e
+	how := "given"
+	if !st.Energise.DurationGiven {
+		e.Duration, how = energiseDuration(st, e.Excitation)
+	}
+	return e, how
+}
+
+// Bounds of the default energisation duration.
+const (
+	// defaultDurationMin: the former fixed default, 20 ms (one cycle at 50 Hz).
+	defaultDurationMin = 20e-3
+	// defaultRoundTrips: travelling waves get at least five round trips (10 τ)
+	// (common practice, no source: the switching surge has its crest within the
+	// first few round trips).
+	defaultRoundTrips = 5
+	// defaultDecayTimes: a natural oscillation is followed for three of its time
+	// constants Q/(π f), until it has decayed to e^-3 = 5 % of its amplitude: a
+	// later alignment with the power-frequency crest can then add at most 5 % of it.
+	defaultDecayTimes = 3
+	// defaultDurationCycles caps the default at ten cycles of the system frequency.
+	defaultDurationCycles = 10
+)
+
+// energiseDuration chooses the duration of a run whose study gives no duration_ms:
+// the longest of 20 ms, five round trips of the line (10 τ), two periods of the
+// network's lowest natural oscillation (the first resonance f1 of |Vr/E| with the
+// far end open, from a frequency scan: the source inductance against the line
+// capacitance and shunts) and, for a sine EMF, the time that oscillation takes to
+// decay to 5 % (3·Q/(π·f1), Q from the resonance's -3 dB band), but no longer than
+// one beat period 1/|f1 − n·f0| with the nearest harmonic n·f0 (after it the two
+// crests align again as before); at most ten cycles of the system frequency. The
+// text says which bound decided.
+func energiseDuration(st *study.Study, exc waves.Excitation) (float64, string) {
+	f0 := st.Frequency
+	tau := travelTime(st)
+	d, why := defaultDurationMin, "at least 20 ms"
+	if t := 2 * defaultRoundTrips * tau; t > d {
+		d, why = t, fmt.Sprintf("%d round trips of the line, 10 x %.4g ms", defaultRoundTrips, tau*1e3)
+	}
+	f1, q := lowestResonance(st, tau)
+	if f1 > 0 {
+		if t := 2 / f1; t > d {
+			d, why = t, fmt.Sprintf("two periods of the lowest natural frequency %.4g Hz", f1)
+		}
+		if exc == waves.Sine {
+			decay := math.Inf(1)
+			if q > 0 {
+				decay = defaultDecayTimes * q / (math.Pi * f1)
+			}
+			n := math.Max(1, math.Round(f1/f0))
+			beat := math.Inf(1)
+			if f1 != n*f0 {
+				beat = 1 / math.Abs(f1-n*f0)
+			}
+			t, w := decay, fmt.Sprintf("the %.4g Hz natural oscillation (Q %.3g) decayed to 5 %%, 3Q/(π f)", f1, q)
+			if q == 0 {
+				w = fmt.Sprintf("the %.4g Hz natural oscillation, undamped", f1)
+			}
+			if beat < decay {
+				t, w = beat, fmt.Sprintf("one beat period of the %.4g Hz natural oscillation with the %g Hz harmonic", f1, n*f0)
+			}
+			if t > d {
+				d, why = t, w
+			}
+		}
+	}
+	if top := math.Max(defaultDurationCycles/f0, defaultDurationMin); d > top {
+		d, why = top, fmt.Sprintf("%s, capped at %d cycles", why, defaultDurationCycles)
+	}
+	// A given time step bounds the samples.
+	if dt := st.Energise.TimeStep; dt > 0 && d/dt > waves.MaxSamples {
+		d, why = dt*waves.MaxSamples, fmt.Sprintf("%s, capped at %d samples of the given time step", why, waves.MaxSamples)
+	}
+	return d, "default: " + why
+}
+
+// lowestResonance returns the lowest resonance of |Vr/E| of the energised network
+// (far end open) and its Q (0 when unbounded or its band is not defined), on a grid
+// of 4000 points from 1 Hz to the larger of 2 kHz and the line's half-wave
+// frequency 1/(2τ); 0, 0 when there is none.
+func lowestResonance(st *study.Study, tau float64) (f, q float64) {
+	net := st.Network.Energising()
+	top := math.Max(2e3, 1/(2*tau))
+	const n = 4000
+	freqs := make([]float64, n)
+	for i := range freqs {
+		freqs[i] = 1 + (top-1)*float64(i)/(n-1)
+	}
+	pts := freqscan.Scan(nil, net, freqs)
+	for _, p := range freqscan.Peaks(net, pts) {
+		if f == 0 || p.F < f {
+			f, q = p.F, p.Q
+			if p.Unbounded || math.IsInf(p.Q, 0) || math.IsNaN(p.Q) {
+				q = 0
+			}
+		}
+	}
+	return f, q
 }
 
 // lineIsLossy reports whether any section has series resistance or shunt conductance
@@ -410,7 +509,7 @@ func computeEnergise(st *study.Study, method string) (energiseResult, error) {
 	if method == "" {
 		method = "laplace"
 	}
-	e := energisation(st)
+	e, durationHow := energisation(st)
 	w, d, limits, err := runMethod(st, method, e)
 	if err != nil {
 		return energiseResult{}, err
@@ -423,6 +522,7 @@ func computeEnergise(st *study.Study, method string) (energiseResult, error) {
 		CloseDeg:         e.CloseDeg,
 		TrappedPU:        e.TrappedPU,
 		DurationMs:       e.Duration * 1e3,
+		DurationHow:      durationHow,
 		TimeStepUs:       w.Step * 1e6,
 		TravelTimeMs:     travelTime(st) * 1e3,
 		Limits:           limits,
@@ -577,7 +677,7 @@ func transientSpectrum(v []float64, dt, f0 float64, res []energiseResonance) ene
 // compareEnergise runs every method the study allows on the Bergeron time step (or
 // the study's time_step_us) and returns the largest receiving-end differences.
 func compareEnergise(st *study.Study) (*energiseComparison, error) {
-	e := energisation(st)
+	e, _ := energisation(st)
 	cmp := &energiseComparison{Peaks: map[string]float64{}, traces: map[string][]float64{}}
 	ber, _, _, err := runMethod(st, "bergeron", e)
 	if err != nil {
@@ -794,7 +894,10 @@ func printEnergise(w io.Writer, st *study.Study, res energiseResult) {
 	if res.Waveform == "sine" {
 		exc = fmt.Sprintf("EMF sin(wt + %g deg)", res.CloseDeg)
 	}
-	fmt.Fprintf(w, "  %s, trapped charge %g pu, %g ms in steps of %.4g us; travel time %.4f ms\n", exc, res.TrappedPU, res.DurationMs, res.TimeStepUs, res.TravelTimeMs)
+	fmt.Fprintf(w, "  %s, trapped charge %g pu, %.4g ms in steps of %.4g us; travel time %.4f ms\n", exc, res.TrappedPU, res.DurationMs, res.TimeStepUs, res.TravelTimeMs)
+	if res.DurationHow != "given" {
+		fmt.Fprintf(w, "  duration %.4g ms (%s)\n", res.DurationMs, res.DurationHow)
+	}
 	fmt.Fprintf(w, "  1 pu = %.4g kV (peak phase-to-earth EMF)\n\n", res.BaseKV)
 	fmt.Fprintf(w, "method %s\n  limits: %s\n", res.Method, res.Limits)
 	for _, n := range res.Notes {

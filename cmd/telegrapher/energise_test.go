@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -325,5 +326,80 @@ l_mh = 0
 				}
 			}
 		})
+	}
+}
+
+// sine500kV: 400 km 500 kV 60 Hz line with 150 Mvar line-connected reactors at both
+// ends behind a 15 GVA source, closed at the EMF crest. Its lowest natural frequency
+// (about 169 Hz) beats with the 3rd harmonic (180 Hz): the crests of the natural and
+// the power-frequency oscillation align again some 30 ms after closing, and the
+// open-end peak there (about 2.19 pu) is higher than any within 20 ms (about 2.09).
+const sine500kV = `
+frequency_hz = 60
+voltage_kv = 500
+[line]
+length_km = 400
+r_ohm_per_km = 0.02
+l_mh_per_km = 0.87
+c_nf_per_km = 13.3
+[source]
+short_circuit_mva = 15000
+x_over_r = 15
+[[shunt]]
+at = "sending"
+connection = "line"
+mvar = 150
+q_factor = 300
+[[shunt]]
+at = "receiving"
+connection = "line"
+mvar = 150
+q_factor = 300
+[energise]
+waveform = "sine"
+close_deg = 90
+`
+
+// Without duration_ms the run covers the network's slowest oscillation that matters:
+// its peak is the peak of a long run (100 ms, identity: the longer run contains the
+// default one's), and the output says the duration and why.
+func TestEnergiseDefaultDurationCatchesLaterPeak(t *testing.T) {
+	t.Parallel()
+	// peakTol: two runs of different length have different Laplace windows and
+	// damping; they agree to the transform's accuracy away from fronts (waves tests,
+	// 2e-3 pu), doubled for the different sampling of the crest.
+	const peakTol = 4e-3
+	type doc struct {
+		PeakPU      float64 `json:"peak_pu"`
+		TPeakMs     float64 `json:"t_peak_ms"`
+		DurationMs  float64 `json:"duration_ms"`
+		DurationHow string  `json:"duration_how"`
+	}
+	get := func(text string) doc {
+		code, out, errs := runCLI("energise", writeStudy(t, text), "--json")
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		var d doc
+		if err := json.Unmarshal([]byte(out), &d); err != nil {
+			t.Fatal(err)
+		}
+		return d
+	}
+	def := get(sine500kV)
+	long := get(sine500kV + "duration_ms = 100\n")
+	if long.TPeakMs <= 20 {
+		t.Fatalf("the case lost its point: the 100 ms run peaks at %.2f ms", long.TPeakMs)
+	}
+	if math.Abs(def.PeakPU-long.PeakPU) > peakTol {
+		t.Errorf("default duration %.4g ms (%s): peak %.4f pu at %.2f ms, the 100 ms run %.4f pu at %.2f ms",
+			def.DurationMs, def.DurationHow, def.PeakPU, def.TPeakMs, long.PeakPU, long.TPeakMs)
+	}
+	if !strings.HasPrefix(def.DurationHow, "default: ") || long.DurationHow != "given" {
+		t.Errorf("duration_how %q (default) and %q (given)", def.DurationHow, long.DurationHow)
+	}
+	code, out, _ := runCLI("energise", writeStudy(t, sine500kV))
+	if code != 0 || !strings.Contains(out, fmt.Sprintf("duration %.4g ms (default: ", def.DurationMs)) {
+		t.Errorf("the text output does not say the default duration:\n%s", out)
 	}
 }

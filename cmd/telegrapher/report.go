@@ -866,7 +866,7 @@ func (rr *reportRun) energiseSection() (report.Section, error) {
 		{Name: "receiving-end peak", Value: fmt.Sprintf("%+.3f pu (%+.0f kV) at %.3f ms", res.PeakPU, res.PeakKV, res.TPeakMs), Flag: peakOver},
 		{Name: "sending-end peak", Value: fmt.Sprintf("%+.3f pu at %.3f ms", res.PeakSendingPU, res.TPeakSendingMs)},
 		{Name: "travel time", Value: fmt.Sprintf("%.4g ms", res.TravelTimeMs)},
-		{Name: "duration, time step", Value: fmt.Sprintf("%g ms, %.4g µs", res.DurationMs, res.TimeStepUs)},
+		{Name: "duration, time step", Value: fmt.Sprintf("%.4g ms (%s), %.4g µs", res.DurationMs, res.DurationHow, res.TimeStepUs)},
 	}
 	var dom []string
 	for i, d := range res.Spectrum.Dominant {
