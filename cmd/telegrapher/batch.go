@@ -170,7 +170,9 @@ func screenLine(file string, bl batchLine) (batchResult, error) {
 		}
 		return v / limit
 	}
-	r.Severity = math.Max(ratio(r.OpenEndRisePU, openEndRiseScreenPU), ratio(math.Abs(r.EnergisePeakPU), energisePeakScreenPU))
+	// the energisation peak less the method's stated accuracy at wavefronts, as the
+	// flag compares it (energiseOver)
+	r.Severity = math.Max(ratio(r.OpenEndRisePU, openEndRiseScreenPU), ratio(math.Abs(r.EnergisePeakPU)-en.FrontOvershootPU, energisePeakScreenPU))
 	for _, h := range sc.Harmonics {
 		if h.Watched && h.OverLimit {
 			r.Flags = append(r.Flags, fmt.Sprintf("h%d gain %s > %g", h.Order, fmtGain(h.BandGain), sc.GainLimit))
