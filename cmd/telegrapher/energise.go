@@ -347,17 +347,22 @@ const (
 	defaultDecayTimes = 3
 	// defaultDurationCycles caps the default at ten cycles of the system frequency.
 	defaultDurationCycles = 10
+	// defaultBeatHarmonic: a natural oscillation above this multiple of the system
+	// frequency has a crest within π·f0/f1 of every EMF crest, which loses at most
+	// 1 − cos(π/20) = 1.2 % of the EMF against perfect alignment; the first crests,
+	// before it decays, are then the highest and its beat is not followed.
+	defaultBeatHarmonic = 20
 )
 
 // energiseDuration chooses the duration of a run whose study gives no duration_ms:
 // the longest of 20 ms, five round trips of the line (10 τ), two periods of the
 // network's lowest natural oscillation (the first resonance f1 of |Vr/E| with the
 // far end open, from a frequency scan: the source inductance against the line
-// capacitance and shunts) and, for a sine EMF, the time that oscillation takes to
-// decay to 5 % (3·Q/(π·f1), Q from the resonance's -3 dB band), but no longer than
-// one beat period 1/|f1 − n·f0| with the nearest harmonic n·f0 (after it the two
-// crests align again as before); at most ten cycles of the system frequency. The
-// text says which bound decided.
+// capacitance and shunts) and, for a sine EMF with f1 below the 20th harmonic, the
+// time that oscillation takes to decay to 5 % (3·Q/(π·f1), Q from the resonance's
+// -3 dB band), but no longer than one beat period 1/|f1 − n·f0| with the nearest
+// harmonic n·f0 (after it the two crests align again as before); at most ten cycles
+// of the system frequency. The text says which bound decided.
 func energiseDuration(st *study.Study, exc waves.Excitation) (float64, string) {
 	f0 := st.Frequency
 	tau := travelTime(st)
@@ -370,7 +375,7 @@ func energiseDuration(st *study.Study, exc waves.Excitation) (float64, string) {
 		if t := 2 / f1; t > d {
 			d, why = t, fmt.Sprintf("two periods of the lowest natural frequency %.4g Hz", f1)
 		}
-		if exc == waves.Sine {
+		if exc == waves.Sine && f1 < defaultBeatHarmonic*f0 {
 			decay := math.Inf(1)
 			if q > 0 {
 				decay = defaultDecayTimes * q / (math.Pi * f1)
