@@ -109,7 +109,7 @@ func TestLaplaceFiniteLongAndFine(t *testing.T) {
 		{Energisation{Excitation: Step, Omega: testOmega, Duration: 20e-3, TimeStep: 0.1e-6}, 2},
 		{Energisation{Excitation: Step, Omega: testOmega, TrappedPU: -1, Duration: 0.5, TimeStep: 20e-6}, 3},
 	}
-	// the window's overshoot at a jump: about 1 % (Hanning), and the O(1/N²) alias.
+	// the window's overshoot at a jump (under 0.02 %, LaplaceFrontOvershoot) and the O(1/N²) alias.
 	const overshoot = 0.03
 	for _, c := range cases {
 		w, err := Laplace(testNetwork(0, 0, 0), c.e, LaplaceOptions{})
@@ -204,5 +204,55 @@ func TestLaplaceWindowIndependence(t *testing.T) {
 	}
 	if _, err := Laplace(n, e, LaplaceOptions{Samples: 1000}); err == nil {
 		t.Errorf("a sample count that is not a power of two was accepted")
+	}
+}
+
+// Wavefront overshoot: the lossless line from an ideal source has exact open-end
+// steps of 2 pu at τ, 3τ, ... (Bewley (1951), from memory; the lattice diagram gives
+// the same). The windowed inversion must not carry the peak beyond the exact 2 pu by
+// more than its stated bound (Waveform.Overshoot, LaplaceFrontOvershoot of the
+// jump), wherever the front falls between samples, and an ideal source holds the
+// sending end at the EMF exactly.
+func TestLaplaceFrontOvershoot(t *testing.T) {
+	t.Parallel()
+	// frontTol: the demand that the window not decide a verdict at 2 pu: an
+	// overshoot below 0.1 % of the jump (the Hann half-window gives 0.64 %).
+	const frontTol = 1e-3
+	// exactTol: the ideal sending end is the EMF to round-off.
+	const exactTol = 1e-12
+	for _, c := range []struct {
+		name string
+		e    Energisation
+	}{
+		{"step, default step (front on a sample)", stepSettings(5*testTau, 0)},
+		{"step, front 0.3 step after a sample", stepSettings(5*testTau, testTau/100.3)},
+		{"step, front 0.9 step after a sample", stepSettings(5*testTau, testTau/100.9)},
+		{"step, 1 pu trapped", Energisation{Excitation: Step, Omega: testOmega, TrappedPU: -1, Duration: 5 * testTau}},
+		{"sine at 90°", Energisation{Excitation: Sine, Omega: testOmega, CloseDeg: 90, Duration: 5 * testTau}},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			w, err := Laplace(testNetwork(0, 0, 0), c.e, LaplaceOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			lat, _, err := Lattice(testNetwork(0, 0, 0), Energisation{Excitation: c.e.Excitation, Omega: c.e.Omega, CloseDeg: c.e.CloseDeg, TrappedPU: c.e.TrappedPU, Duration: c.e.Duration, TimeStep: w.Step / 8}, LatticeOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			exact, _ := Peak(lat.Receiving)
+			jump := 2 - 2*c.e.TrappedPU // the largest step of the exact open end
+			got, k := Peak(w.Receiving)
+			if over := math.Abs(got) - math.Abs(exact); over > frontTol*math.Abs(jump) {
+				t.Errorf("open-end peak %.5f pu at %.4g ms, exact %.5f: overshoot %.2g pu, more than %.2g of the %.3g pu jump", got, w.Time(k)*1e3, exact, over, frontTol, jump)
+			} else if over > w.Overshoot {
+				t.Errorf("overshoot %.2g pu beyond the stated bound %.2g pu", over, w.Overshoot)
+			}
+			for k, v := range w.Sending[1:] {
+				if want := c.e.emf(w.Time(k + 1)); math.Abs(v-want) > exactTol {
+					t.Fatalf("ideal source: sending end %.6f pu at %.4g ms, the EMF is %.6f", v, w.Time(k+1)*1e3, want)
+				}
+			}
+		})
 	}
 }

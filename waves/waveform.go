@@ -98,6 +98,10 @@ type Waveform struct {
 	// Junctions holds the voltage at each junction of sections of a sectioned line,
 	// from the sending end (len(line) − 1 of them); nil for a single section.
 	Junctions []JunctionWave
+	// Overshoot bounds, in pu, how far the method's smoothing of wavefronts may carry
+	// a peak beyond the exact waveform of its model (the numerical Laplace window);
+	// 0 where the method adds none. A verdict against a limit allows for it.
+	Overshoot float64
 	// Notes states the method's assumptions and its error estimate, for the reader.
 	Notes []string
 }

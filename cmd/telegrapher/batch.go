@@ -185,7 +185,9 @@ func screenLine(file string, bl batchLine) (batchResult, error) {
 		}
 		return v / limit
 	}
-	r.Severity = math.Max(ratio(r.OpenEndRisePU, openEndRiseScreenPU), ratio(math.Abs(r.EnergisePeakPU), energisePeakScreenPU))
+	// the energisation peak less the method's stated accuracy at wavefronts, as the
+	// flag compares it (energiseOver)
+	r.Severity = math.Max(ratio(r.OpenEndRisePU, openEndRiseScreenPU), ratio(math.Abs(r.EnergisePeakPU)-en.FrontOvershootPU, energisePeakScreenPU))
 	for _, h := range sc.Harmonics {
 		if h.Watched && h.OverLimit {
 			r.Flags = append(r.Flags, fmt.Sprintf("h%d%s gain %s > %g", h.Order, sequenceMark(h.Sequence), fmtGain(h.BandGain), sc.GainLimit))
@@ -194,7 +196,7 @@ func screenLine(file string, bl batchLine) (batchResult, error) {
 			r.Severity = math.Max(r.Severity, ratio(h.BandGain, sc.GainLimit))
 		}
 	}
-	if math.Abs(r.EnergisePeakPU) > energisePeakScreenPU {
+	if over, _ := energiseOver(en, energiseLimit()); over {
 		r.Flags = append(r.Flags, fmt.Sprintf("energisation %.2f pu > %.1f", math.Abs(r.EnergisePeakPU), energisePeakScreenPU))
 	}
 	if r.OpenEndRisePU > openEndRiseScreenPU {

@@ -93,20 +93,20 @@ overvoltages (no surge arresters).`,
 					res.Compare = cmp
 				}
 				if *diagramPath != "" {
-					d := res.diagram
+					d, note, err := latticeDiagram(st, res)
+					if err != nil {
+						return err
+					}
 					if d == nil {
-						lat, err := computeEnergise(st, "lattice")
-						if err != nil {
-							var ue *usageError
-							if errors.As(err, &ue) {
-								return usagef("%v (--diagram draws the lattice diagram)", err)
-							}
-							return err
-						}
-						d = lat.diagram
+						return usagef("%s: --diagram %s: %s", st.File, *diagramPath, note)
+					}
+					title := "Lattice diagram: " + studyTitle(st)
+					if note != "" {
+						res.Notes = append(res.Notes, "--diagram: "+note)
+						title = "Lattice diagram of the line alone (ideal source): " + studyTitle(st)
 					}
 					p, err := report.LatticePlot(report.LatticePlotData{
-						Title:    "Lattice diagram: " + studyTitle(st),
+						Title:    title,
 						Diagram:  d,
 						Sections: sectionNames(st),
 						Sine:     st.Energise.Waveform == "sine",
@@ -146,6 +146,45 @@ overvoltages (no surge arresters).`,
 	})
 }
 
+// lineAloneNote says what a lattice diagram of the line alone shows.
+const lineAloneNote = "the lattice method treats only a resistive source without shunts, so the lattice diagram shows the line alone, energised from an ideal source: its travel times and reflections, not the study's source and shunts"
+
+// latticeDiagram returns the lattice diagram of the energisation: res's own when it
+// was computed by the lattice method, else the study's by the lattice method, else,
+// when the lattice method cannot treat the study's source or shunts, the line alone
+// from an ideal source with a note saying so. When even the line alone cannot be
+// drawn, d is nil and note says why, in terms of the diagram (no advice to use
+// another method: a diagram was asked for).
+func latticeDiagram(st *study.Study, res energiseResult) (d *waves.LatticeDiagram, note string, err error) {
+	if res.diagram != nil {
+		return res.diagram, "", nil
+	}
+	lat, err := computeEnergise(st, "lattice")
+	if err == nil {
+		return lat.diagram, "", nil
+	}
+	if !cannotRun(err) {
+		return nil, "", err
+	}
+	alone := *st
+	alone.Network.Source = freqscan.Source{}
+	alone.Network.Shunts = nil
+	lat, err = computeEnergise(&alone, "lattice")
+	switch {
+	case err == nil:
+		return lat.diagram, lineAloneNote, nil
+	case cannotRun(err):
+		msg := err.Error()
+		if i := strings.Index(msg, "cannot treat this study: "); i >= 0 {
+			msg = msg[i+len("cannot treat this study: "):]
+		}
+		msg = strings.NewReplacer("; shorten the duration or use bergeron or laplace", "; shorten energise.duration_ms",
+			" (use bergeron or laplace)", "").Replace(msg)
+		return nil, "lattice diagram not drawn: " + msg, nil
+	}
+	return nil, "", err
+}
+
 func validMethod(m string) bool { return m == "lattice" || m == "bergeron" || m == "laplace" }
 
 // savePlotAs renders p by the extension of path and writes it atomically, naming
@@ -169,21 +208,25 @@ func savePlotAs(p *plot.Plot, w, h vg.Length, path, flagName string) error {
 // (method, peak_pu, t_peak_ms, peak_sending_pu, t_ms, v_receiving_pu, v_sending_pu),
 // the rest are extras.
 type energiseResult struct {
-	Method         string   `json:"method"`
-	PeakPU         float64  `json:"peak_pu"` // signed receiving-end extreme
-	TPeakMs        float64  `json:"t_peak_ms"`
-	PeakSendingPU  float64  `json:"peak_sending_pu"`
-	TPeakSendingMs float64  `json:"t_peak_sending_ms"`
-	PeakKV         float64  `json:"peak_kv"` // the receiving-end peak in kV (signed)
-	BaseKV         float64  `json:"base_kv"` // 1 pu: peak phase-to-earth EMF, kV
-	Waveform       string   `json:"waveform"`
-	CloseDeg       float64  `json:"close_deg"`
-	TrappedPU      float64  `json:"trapped_pu"`
-	DurationMs     float64  `json:"duration_ms"`
-	TimeStepUs     float64  `json:"time_step_us"`
-	TravelTimeMs   float64  `json:"travel_time_ms"`
-	Limits         string   `json:"limits"`
-	Notes          []string `json:"notes"`
+	Method         string  `json:"method"`
+	PeakPU         float64 `json:"peak_pu"` // signed receiving-end extreme
+	TPeakMs        float64 `json:"t_peak_ms"`
+	PeakSendingPU  float64 `json:"peak_sending_pu"`
+	TPeakSendingMs float64 `json:"t_peak_sending_ms"`
+	PeakKV         float64 `json:"peak_kv"` // the receiving-end peak in kV (signed)
+	BaseKV         float64 `json:"base_kv"` // 1 pu: peak phase-to-earth EMF, kV
+	Waveform       string  `json:"waveform"`
+	CloseDeg       float64 `json:"close_deg"`
+	TrappedPU      float64 `json:"trapped_pu"`
+	DurationMs     float64 `json:"duration_ms"`
+	DurationHow    string  `json:"duration_how"` // "given", or "default: " and the bound that decided
+	TimeStepUs     float64 `json:"time_step_us"`
+	TravelTimeMs   float64 `json:"travel_time_ms"`
+	Limits         string  `json:"limits"`
+	// FrontOvershootPU bounds how far the method's smoothing of wavefronts may carry
+	// a peak beyond the exact waveform (the Laplace window; 0 for the others).
+	FrontOvershootPU float64  `json:"front_overshoot_pu"`
+	Notes            []string `json:"notes"`
 
 	Spectrum   energiseSpectrum    `json:"spectrum"`
 	Resonances []energiseResonance `json:"scan_resonances"`
@@ -248,17 +291,30 @@ type energiseComparison struct {
 	traces     map[string][]float64 // receiving-end waveforms by method
 }
 
-// energisePair is the largest difference of the receiving-end voltages of two methods.
+// energisePair is the difference of the receiving-end voltages of two methods: the
+// largest and rms over the run, the largest near the wavefront arrivals, the rms
+// away from them (over the run and its first and second half), and its cause.
 type energisePair struct {
 	A         string  `json:"a"`
 	B         string  `json:"b"`
 	MaxDiffPU float64 `json:"max_diff_pu"`
 	TMs       float64 `json:"t_ms"`
 	RMSDiffPU float64 `json:"rms_diff_pu"`
+
+	FrontWindowMs  float64 `json:"front_window_ms"` // ± this about each arrival counts as near a wavefront
+	FrontMaxDiffPU float64 `json:"front_max_diff_pu"`
+	AwayMaxDiffPU  float64 `json:"away_max_diff_pu"`
+	AwayTMs        float64 `json:"away_t_ms"`
+	AwayRMSDiffPU  float64 `json:"away_rms_diff_pu"`
+	AwayRMSEarlyPU float64 `json:"away_rms_first_half_pu"`
+	AwayRMSLatePU  float64 `json:"away_rms_second_half_pu"`
+	AtWavefronts   bool    `json:"at_wavefronts"` // the difference concentrates at the wavefronts
+	Cause          string  `json:"cause"`
 }
 
-// energisation returns the study's [energise] settings for package waves.
-func energisation(st *study.Study) waves.Energisation {
+// energisation returns the study's [energise] settings for package waves, and how
+// the duration was chosen ("given", or the default's reason, see energiseDuration).
+func energisation(st *study.Study) (waves.Energisation, string) {
 	e := waves.Energisation{
 		Excitation: waves.Step,
 		Omega:      2 * math.Pi * st.Frequency,
@@ -270,7 +326,109 @@ func energisation(st *study.Study) waves.Energisation {
 	if st.Energise.Waveform == "sine" {
 		e.Excitation = waves.Sine
 	}
-	return e
+	how := "given"
+	if !st.Energise.DurationGiven {
+		e.Duration, how = energiseDuration(st, e.Excitation)
+	}
+	return e, how
+}
+
+// Bounds of the default energisation duration.
+const (
+	// defaultDurationMin: the former fixed default, 20 ms (one cycle at 50 Hz).
+	defaultDurationMin = 20e-3
+	// defaultRoundTrips: travelling waves get at least five round trips (10 τ)
+	// (common practice, no source: the switching surge has its crest within the
+	// first few round trips).
+	defaultRoundTrips = 5
+	// defaultDecayTimes: a natural oscillation is followed for three of its time
+	// constants Q/(π f), until it has decayed to e^-3 = 5 % of its amplitude: a
+	// later alignment with the power-frequency crest can then add at most 5 % of it.
+	defaultDecayTimes = 3
+	// defaultDurationCycles caps the default at ten cycles of the system frequency.
+	defaultDurationCycles = 10
+	// defaultBeatHarmonic: a natural oscillation above this multiple of the system
+	// frequency has a crest within π·f0/f1 of every EMF crest, which loses at most
+	// 1 − cos(π/20) = 1.2 % of the EMF against perfect alignment; the first crests,
+	// before it decays, are then the highest and its beat is not followed.
+	defaultBeatHarmonic = 20
+)
+
+// energiseDuration chooses the duration of a run whose study gives no duration_ms:
+// the longest of 20 ms, five round trips of the line (10 τ), two periods of the
+// network's lowest natural oscillation (the first resonance f1 of |Vr/E| with the
+// far end open, from a frequency scan: the source inductance against the line
+// capacitance and shunts) and, for a sine EMF with f1 below the 20th harmonic, the
+// time that oscillation takes to decay to 5 % (3·Q/(π·f1), Q from the resonance's
+// -3 dB band), but no longer than one beat period 1/|f1 − n·f0| with the nearest
+// harmonic n·f0 (after it the two crests align again as before); at most ten cycles
+// of the system frequency. The text says which bound decided.
+func energiseDuration(st *study.Study, exc waves.Excitation) (float64, string) {
+	f0 := st.Frequency
+	tau := travelTime(st)
+	d, why := defaultDurationMin, "at least 20 ms"
+	if t := 2 * defaultRoundTrips * tau; t > d {
+		d, why = t, fmt.Sprintf("%d round trips of the line, 10 x %.4g ms", defaultRoundTrips, tau*1e3)
+	}
+	f1, q := lowestResonance(st, tau)
+	if f1 > 0 {
+		if t := 2 / f1; t > d {
+			d, why = t, fmt.Sprintf("two periods of the lowest natural frequency %.4g Hz", f1)
+		}
+		if exc == waves.Sine && f1 < defaultBeatHarmonic*f0 {
+			decay := math.Inf(1)
+			if q > 0 {
+				decay = defaultDecayTimes * q / (math.Pi * f1)
+			}
+			n := math.Max(1, math.Round(f1/f0))
+			beat := math.Inf(1)
+			if f1 != n*f0 {
+				beat = 1 / math.Abs(f1-n*f0)
+			}
+			t, w := decay, fmt.Sprintf("the %.4g Hz natural oscillation (Q %.3g) decayed to 5 %%, 3Q/(π f)", f1, q)
+			if q == 0 {
+				w = fmt.Sprintf("the %.4g Hz natural oscillation, undamped", f1)
+			}
+			if beat < decay {
+				t, w = beat, fmt.Sprintf("one beat period of the %.4g Hz natural oscillation with the %g Hz harmonic", f1, n*f0)
+			}
+			if t > d {
+				d, why = t, w
+			}
+		}
+	}
+	if top := math.Max(defaultDurationCycles/f0, defaultDurationMin); d > top {
+		d, why = top, fmt.Sprintf("%s, capped at %d cycles", why, defaultDurationCycles)
+	}
+	// A given time step bounds the samples.
+	if dt := st.Energise.TimeStep; dt > 0 && d/dt > waves.MaxSamples {
+		d, why = dt*waves.MaxSamples, fmt.Sprintf("%s, capped at %d samples of the given time step", why, waves.MaxSamples)
+	}
+	return d, "default: " + why
+}
+
+// lowestResonance returns the lowest resonance of |Vr/E| of the energised network
+// (far end open) and its Q (0 when unbounded or its band is not defined), on a grid
+// of 4000 points from 1 Hz to the larger of 2 kHz and the line's half-wave
+// frequency 1/(2τ); 0, 0 when there is none.
+func lowestResonance(st *study.Study, tau float64) (f, q float64) {
+	net := st.Network.Energising()
+	top := math.Max(2e3, 1/(2*tau))
+	const n = 4000
+	freqs := make([]float64, n)
+	for i := range freqs {
+		freqs[i] = 1 + (top-1)*float64(i)/(n-1)
+	}
+	pts := freqscan.Scan(nil, net, freqs)
+	for _, p := range freqscan.Peaks(net, pts) {
+		if f == 0 || p.F < f {
+			f, q = p.F, p.Q
+			if p.Unbounded || math.IsInf(p.Q, 0) || math.IsNaN(p.Q) {
+				q = 0
+			}
+		}
+	}
+	return f, q
 }
 
 // lineIsLossy reports whether any section has series resistance or shunt conductance
@@ -321,7 +479,7 @@ func runMethod(st *study.Study, method string, e waves.Energisation) (*waves.Wav
 		}
 	case "laplace":
 		w, err = waves.Laplace(net, e, waves.LaplaceOptions{})
-		limits = "numerical Laplace transform: linear network, every element at its frequency-dependent value; the window smooths wavefronts over a few time steps"
+		limits = fmt.Sprintf("numerical Laplace transform: linear network, every element at its frequency-dependent value; the window smooths wavefronts over about two time steps and overshoots a jump by at most %.2g %% of it", waves.LaplaceFrontOvershoot*100)
 	default:
 		return nil, nil, "", usagef("%s: energise.method: must be lattice, bergeron or laplace, got %q", st.File, method)
 	}
@@ -356,27 +514,29 @@ func computeEnergise(st *study.Study, method string) (energiseResult, error) {
 	if method == "" {
 		method = "laplace"
 	}
-	e := energisation(st)
+	e, durationHow := energisation(st)
 	w, d, limits, err := runMethod(st, method, e)
 	if err != nil {
 		return energiseResult{}, err
 	}
 	base := st.Voltage * math.Sqrt2 / math.Sqrt(3) / 1e3
 	res := energiseResult{
-		Method:       method,
-		BaseKV:       base,
-		Waveform:     e.Excitation.String(),
-		CloseDeg:     e.CloseDeg,
-		TrappedPU:    e.TrappedPU,
-		DurationMs:   e.Duration * 1e3,
-		TimeStepUs:   w.Step * 1e6,
-		TravelTimeMs: travelTime(st) * 1e3,
-		Limits:       limits,
-		Notes:        w.Notes,
-		VReceivingPU: w.Receiving,
-		VSendingPU:   w.Sending,
-		VMiddlePU:    w.Middle,
-		diagram:      d,
+		Method:           method,
+		BaseKV:           base,
+		Waveform:         e.Excitation.String(),
+		CloseDeg:         e.CloseDeg,
+		TrappedPU:        e.TrappedPU,
+		DurationMs:       e.Duration * 1e3,
+		DurationHow:      durationHow,
+		TimeStepUs:       w.Step * 1e6,
+		TravelTimeMs:     travelTime(st) * 1e3,
+		Limits:           limits,
+		FrontOvershootPU: w.Overshoot,
+		Notes:            w.Notes,
+		VReceivingPU:     w.Receiving,
+		VSendingPU:       w.Sending,
+		VMiddlePU:        w.Middle,
+		diagram:          d,
 	}
 	if e.Excitation != waves.Sine {
 		res.CloseDeg = 0
@@ -522,7 +682,7 @@ func transientSpectrum(v []float64, dt, f0 float64, res []energiseResonance) ene
 // compareEnergise runs every method the study allows on the Bergeron time step (or
 // the study's time_step_us) and returns the largest receiving-end differences.
 func compareEnergise(st *study.Study) (*energiseComparison, error) {
-	e := energisation(st)
+	e, _ := energisation(st)
 	cmp := &energiseComparison{Peaks: map[string]float64{}, traces: map[string][]float64{}}
 	ber, _, _, err := runMethod(st, "bergeron", e)
 	if err != nil {
@@ -548,25 +708,112 @@ func compareEnergise(st *study.Study) (*energiseComparison, error) {
 		cmp.traces[m] = w.Receiving
 		cmp.Peaks[m], _ = waves.Peak(w.Receiving)
 	}
+	tau := travelTime(st)
+	freqDep := lineFrequencyDependent(st)
 	for i, a := range cmp.Methods {
 		for _, b := range cmp.Methods[i+1:] {
-			va, vb := cmp.traces[a], cmp.traces[b]
-			p := energisePair{A: a, B: b}
-			m := min(len(va), len(vb))
-			var sum float64
-			for k := range m {
-				d := math.Abs(va[k] - vb[k])
-				sum += d * d
-				if d > p.MaxDiffPU {
-					p.MaxDiffPU, p.TMs = d, float64(k)*ber.Step*1e3
-				}
-			}
-			p.RMSDiffPU = math.Sqrt(sum / float64(m))
+			p := comparePair(a, b, cmp.traces[a], cmp.traces[b], ber.Step, tau)
+			p.Cause = pairCause(st, p, freqDep)
 			cmp.Pairs = append(cmp.Pairs, p)
 			cmp.MaxDiffPU = math.Max(cmp.MaxDiffPU, p.MaxDiffPU)
 		}
 	}
 	return cmp, nil
+}
+
+// awayFromFrontsPU: an rms difference away from the wavefronts below this is
+// agreement to screening precision (common practice, no source: 0.01 pu is below
+// the precision a switching overvoltage is read to).
+const awayFromFrontsPU = 0.01
+
+// comparePair measures the difference of two receiving-end waveforms (step dt):
+// near the arrivals of the wavefront at the open end, the odd multiples of the
+// travel time tau (within ±max(10·dt, tau/20), where the methods shape the front
+// their own way), and away from them.
+func comparePair(a, b string, va, vb []float64, dt, tau float64) energisePair {
+	p := energisePair{A: a, B: b}
+	m := min(len(va), len(vb))
+	w := math.Max(10*dt, tau/20)
+	p.FrontWindowMs = w * 1e3
+	var sum, away, early, late float64
+	var nAway, nEarly, nLate int
+	for k := range m {
+		t := float64(k) * dt
+		d := math.Abs(va[k] - vb[k])
+		sum += d * d
+		if d > p.MaxDiffPU {
+			p.MaxDiffPU, p.TMs = d, t*1e3
+		}
+		// nearest odd multiple of tau
+		j := 2*math.Floor(t/(2*tau)) + 1
+		if math.Abs(t-j*tau) < w || math.Abs(t-(j-2)*tau) < w || math.Abs(t-(j+2)*tau) < w {
+			p.FrontMaxDiffPU = math.Max(p.FrontMaxDiffPU, d)
+			continue
+		}
+		away += d * d
+		nAway++
+		if d > p.AwayMaxDiffPU {
+			p.AwayMaxDiffPU, p.AwayTMs = d, t*1e3
+		}
+		if k < m/2 {
+			early += d * d
+			nEarly++
+		} else {
+			late += d * d
+			nLate++
+		}
+	}
+	rms := func(s float64, n int) float64 {
+		if n == 0 {
+			return 0
+		}
+		return math.Sqrt(s / float64(n))
+	}
+	p.RMSDiffPU = rms(sum, m)
+	p.AwayRMSDiffPU, p.AwayRMSEarlyPU, p.AwayRMSLatePU = rms(away, nAway), rms(early, nEarly), rms(late, nLate)
+	p.AtWavefronts = p.AwayRMSDiffPU < awayFromFrontsPU
+	return p
+}
+
+// lineFrequencyDependent reports whether any section's series resistance or
+// inductance at ten times the system frequency differs from its value at the system
+// frequency by more than 1 % (a line from geometry: skin effect and earth return).
+func lineFrequencyDependent(st *study.Study) bool {
+	w := 2 * math.Pi * st.Frequency
+	for _, l := range st.Network.Line {
+		z1, _ := l.At(complex(0, w))
+		z10, _ := l.At(complex(0, 10*w))
+		r1, r10 := real(z1), real(z10)
+		l1, l10 := imag(z1)/w, imag(z10)/(10*w)
+		if math.Abs(r10-r1) > 0.01*math.Abs(r1) || math.Abs(l10-l1) > 0.01*math.Abs(l1) {
+			return true
+		}
+	}
+	return false
+}
+
+// pairCause explains the difference of two methods by its cause.
+func pairCause(st *study.Study, p energisePair, freqDep bool) string {
+	if p.AtWavefronts {
+		return fmt.Sprintf("the difference concentrates at the wavefronts (largest %.3g pu within ±%.3g ms of the arrivals, rms %.2g pu away from them), where each method shapes the jump its own way", p.FrontMaxDiffPU, p.FrontWindowMs, p.AwayRMSDiffPU)
+	}
+	away := fmt.Sprintf("away from the wavefronts the difference is rms %.3g pu (%.3g in the first half of the run, %.3g in the second), largest %.3g pu at %.3f ms", p.AwayRMSDiffPU, p.AwayRMSEarlyPU, p.AwayRMSLatePU, p.AwayMaxDiffPU, p.AwayTMs)
+	if freqDep && (p.A == "laplace" || p.B == "laplace") {
+		other := p.A
+		if other == "laplace" {
+			other = p.B
+		}
+		return fmt.Sprintf("%s: the line's constants vary with frequency (skin effect, earth return) and the %s method holds them at %g Hz, while the Laplace transform damps and slows each frequency of the transient by the line's own resistance and inductance there; the higher frequencies are damped more, so the waveforms drift apart as the run goes on", away, other, st.Frequency)
+	}
+	if lineIsLossy(st) {
+		losses := map[string]string{
+			"lattice":  "lattice: a distortionless attenuation at one frequency",
+			"bergeron": "Bergeron: the resistance lumped at the ends and middle",
+			"laplace":  "Laplace: the resistance distributed along the line",
+		}
+		return fmt.Sprintf("%s: the methods treat the line's losses differently (%s; %s)", away, losses[p.A], losses[p.B])
+	}
+	return away + ": the methods treat the source and shunts differently (Bergeron: the trapezoidal rule on the time step; Laplace: exact in frequency)"
 }
 
 // energiseTable returns the waveforms as a table: t_ms, v_sending_pu, v_receiving_pu,
@@ -652,7 +899,10 @@ func printEnergise(w io.Writer, st *study.Study, res energiseResult) {
 	if res.Waveform == "sine" {
 		exc = fmt.Sprintf("EMF sin(wt + %g deg)", res.CloseDeg)
 	}
-	fmt.Fprintf(w, "  %s, trapped charge %g pu, %g ms in steps of %.4g us; travel time %.4f ms\n", exc, res.TrappedPU, res.DurationMs, res.TimeStepUs, res.TravelTimeMs)
+	fmt.Fprintf(w, "  %s, trapped charge %g pu, %.4g ms in steps of %.4g us; travel time %.4f ms\n", exc, res.TrappedPU, res.DurationMs, res.TimeStepUs, res.TravelTimeMs)
+	if res.DurationHow != "given" {
+		fmt.Fprintf(w, "  duration %.4g ms (%s)\n", res.DurationMs, res.DurationHow)
+	}
 	fmt.Fprintf(w, "  1 pu = %.4g kV (peak phase-to-earth EMF)\n\n", res.BaseKV)
 	fmt.Fprintf(w, "method %s\n  limits: %s\n", res.Method, res.Limits)
 	for _, n := range res.Notes {
@@ -701,9 +951,9 @@ func printEnergise(w io.Writer, st *study.Study, res energiseResult) {
 			fmt.Fprintf(w, "  %-9s peak %+.4f pu\n", m, c.Peaks[m])
 		}
 		for _, p := range c.Pairs {
-			fmt.Fprintf(w, "  %s vs %s: largest difference %.4f pu at %.3f ms, rms %.4f pu\n", p.A, p.B, p.MaxDiffPU, p.TMs, p.RMSDiffPU)
+			fmt.Fprintf(w, "  %s vs %s: largest difference %.4f pu at %.3f ms, rms %.4f pu\n    %s\n", p.A, p.B, p.MaxDiffPU, p.TMs, p.RMSDiffPU, p.Cause)
 		}
-		fmt.Fprintf(w, "  largest difference of all: %.4f pu (differences concentrate at wavefronts, where each method smooths the jump its own way)\n", c.MaxDiffPU)
+		fmt.Fprintf(w, "  largest difference of all: %.4f pu\n", c.MaxDiffPU)
 		for _, s := range c.Skipped {
 			fmt.Fprintf(w, "  skipped %s\n", s)
 		}

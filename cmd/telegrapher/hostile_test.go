@@ -245,6 +245,8 @@ func hostileFilesUnder(t *testing.T, dir string) []string {
 // TestHostileMethodRefusal: a method that cannot treat the study (the lattice diagram
 // with an inductive source) is bad input naming energise.method (contract, "Exit
 // status"), from the file and from the flag, with nothing on stdout and no file.
+// (--diagram alone is not refused: it draws the line alone, see
+// TestEnergiseDiagramInductiveSource.)
 func TestHostileMethodRefusal(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
@@ -261,7 +263,6 @@ func TestHostileMethodRefusal(t *testing.T) {
 		{"energise", study, "--plot", filepath.Join(out, "e.svg"), "--csv", filepath.Join(out, "e.csv")},
 		{"energise", "--json", study},
 		{"energise", "--method", "lattice", "--json", study},
-		{"energise", study, "--diagram", filepath.Join(out, "d.svg"), "--method", "bergeron"},
 	} {
 		var stdout, stderr bytes.Buffer
 		status := run(args, &stdout, &stderr)

@@ -37,7 +37,6 @@ import (
 
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
-	"github.com/telegrapher/telegrapher/freqscan"
 )
 
 // writePlot renders p as SVG at the given size into the folder and returns the SVG
@@ -161,22 +160,15 @@ func (rr *reportRun) switchingSection() (report.Section, error) {
 	sec := report.Section{ID: id, Title: title, Verdict: report.Info, Notes: r.Notes}
 	sec.Reading = fmt.Sprintf("u2 = %.2f pu (%.0f kV) by the phase-peak method over %d shots, largest phase peak %.2f pu",
 		r.U2PU, r.U2KV, r.Shots, r.MaxPU)
-	if r.MarginPct != nil {
-		m := *r.MarginPct
-		sec.Verdict = report.Pass
-		word := "a margin of"
-		if m < 0 {
-			sec.Verdict, word = report.Flagged, "short of the withstand by"
-		}
-		sec.Reading += fmt.Sprintf("; against the SIWL of %.0f kV: %s %.1f %%", r.SIWLKV, word, math.Abs(m))
-	}
+	verdict, text, u2Over, marginShort := switchingVerdict(rr.st, &r)
+	sec.Verdict, sec.Reading = verdict, sec.Reading+text
 	if !r.Unprotected {
 		sec.Reading += " (with arresters)"
 	}
 	sec.Facts = []report.Fact{
 		{Name: "shots, seed", Value: fmt.Sprintf("%d, %d", r.Shots, r.Seed)},
 		{Name: "per-unit base (IEC 60071-1)", Value: fmt.Sprintf("Us·√2/√3 = %.1f kV", r.BaseIECKV)},
-		{Name: "u2, phase-peak (2 % value)", Value: fmt.Sprintf("%.3f pu, %.0f kV", r.U2PU, r.U2KV)},
+		{Name: "u2, phase-peak (2 % value)", Value: fmt.Sprintf("%.3f pu, %.0f kV", r.U2PU, r.U2KV), Flag: u2Over},
 		{Name: "ut, phase-peak (truncation)", Value: fmt.Sprintf("%.3f pu, %.0f kV", r.UtPU, r.UtKV)},
 		{Name: "u2, case-peak", Value: fmt.Sprintf("%.3f pu, %.0f kV", r.CaseU2PU, r.CaseU2KV)},
 		{Name: "u2 of a normal fit", Value: fmt.Sprintf("%.3f pu", r.U2FitPU)},
@@ -185,7 +177,7 @@ func (rr *reportRun) switchingSection() (report.Section, error) {
 	}
 	if r.MarginPct != nil {
 		sec.Facts = append(sec.Facts, report.Fact{Name: fmt.Sprintf("margin to SIWL %.0f kV (ks %.3g, kcd %.3g)", r.SIWLKV, r.Ks, r.Kcd),
-			Value: fmt.Sprintf("%+.1f %%", *r.MarginPct), Flag: *r.MarginPct < 0})
+			Value: fmt.Sprintf("%+.1f %%", *r.MarginPct), Flag: marginShort})
 	}
 	for _, a := range r.Arresters {
 		name := "arrester at the " + a.At + " end"
@@ -565,22 +557,24 @@ func (rr *reportRun) constantsSection() (report.Section, error) {
 // the switching section.
 const energisePeakScreenPU = 2.0
 
-// ordinal writes a harmonic order as the report reads it: "5th", "4.1th".
-func ordinal(h float64) string {
-	if h == math.Round(h) {
-		n := int(h)
-		switch {
-		case n%100 >= 11 && n%100 <= 13:
-		case n%10 == 1:
-			return fmt.Sprintf("%dst", n)
-		case n%10 == 2:
-			return fmt.Sprintf("%dnd", n)
-		case n%10 == 3:
-			return fmt.Sprintf("%drd", n)
-		}
-		return fmt.Sprintf("%dth", n)
+// harmonicAt names a harmonic order as the report reads it: "the 5th harmonic" for a
+// whole order, "harmonic order 4.4" otherwise (a fractional order is not an ordinal).
+func harmonicAt(h float64) string {
+	if h != math.Round(h) {
+		return fmt.Sprintf("harmonic order %.1f", h)
 	}
-	return fmt.Sprintf("%.1fth", h)
+	n := int(h)
+	suffix := "th"
+	switch {
+	case n%100 >= 11 && n%100 <= 13:
+	case n%10 == 1:
+		suffix = "st"
+	case n%10 == 2:
+		suffix = "nd"
+	case n%10 == 3:
+		suffix = "rd"
+	}
+	return fmt.Sprintf("the %d%s harmonic", n, suffix)
 }
 
 // scanSection is the harmonic scan part: the gain plot with its peaks, the watched
@@ -616,9 +610,9 @@ func (rr *reportRun) scanSection() (report.Section, error) {
 	case first == nil:
 		sec.Reading = fmt.Sprintf("no resonance of the gain between %g and %g Hz", res.FMinHz, res.FMaxHz)
 	case first.Unbounded:
-		sec.Reading = fmt.Sprintf("first resonance at the %s harmonic (%.4g Hz), unbounded gain (lossless network)", ordinal(first.Harmonic), first.FHz)
+		sec.Reading = fmt.Sprintf("first resonance at %s (%.4g Hz), unbounded gain (lossless network)", harmonicAt(first.Harmonic), first.FHz)
 	default:
-		sec.Reading = fmt.Sprintf("first resonance at the %s harmonic (%.4g Hz), gain %.3g", ordinal(first.Harmonic), first.FHz, first.Gain)
+		sec.Reading = fmt.Sprintf("first resonance at %s (%.4g Hz), gain %.3g", harmonicAt(first.Harmonic), first.FHz, first.Gain)
 		if first.Gain > res.GainLimit {
 			sec.Reading += fmt.Sprintf(": above the limit of %g", res.GainLimit)
 		} else {
@@ -635,6 +629,12 @@ func (rr *reportRun) scanSection() (report.Section, error) {
 			seq = " (zero sequence)"
 		}
 		sec.Reading += fmt.Sprintf("; worst watched harmonic h%d%s, gain %s within ±%.0f %% (%s the limit)", worst.Order, seq, fmtGain(worst.BandGain), res.WatchBandPct, verdict)
+		if over, given, text := scanTargetCheck(rr.st, worst.BandGain); given {
+			sec.Reading += text
+			if over {
+				sec.Verdict = report.Flagged
+			}
+		}
 	}
 	if len(res.Flags) > 0 {
 		sec.Reading += fmt.Sprintf("; %d flag(s)", len(res.Flags))
@@ -757,13 +757,12 @@ func (rr *reportRun) energiseSection() (report.Section, error) {
 		res.Notes = append([]string{fmt.Sprintf("the study's method could not run (%v); shown by the numerical Laplace transform instead", why)}, res.Notes...)
 	}
 	sec := report.Section{ID: id, Title: title, Verdict: report.Pass}
-	sec.Reading = fmt.Sprintf("open-end peak %+.3g pu (%.0f kV) at %.3g ms by the %s method", res.PeakPU, math.Abs(res.PeakKV), res.TPeakMs, res.Method)
-	if math.Abs(res.PeakPU) > energisePeakScreenPU {
+	sec.Reading = fmt.Sprintf("open-end peak %+.4g pu (%.0f kV) at %.3g ms by the %s method", res.PeakPU, math.Abs(res.PeakKV), res.TPeakMs, res.Method)
+	peakOver, text := energiseOver(res, energiseLimit())
+	if peakOver {
 		sec.Verdict = report.Flagged
-		sec.Reading += fmt.Sprintf(": above the %.1f pu screening level", energisePeakScreenPU)
-	} else {
-		sec.Reading += fmt.Sprintf(": within the %.1f pu screening level", energisePeakScreenPU)
 	}
+	sec.Reading += ": " + text
 	excitation := "1 pu step of EMF at t = 0"
 	if res.Waveform == "sine" {
 		excitation = fmt.Sprintf("sine EMF, closing at %.0f°", res.CloseDeg)
@@ -773,10 +772,10 @@ func (rr *reportRun) energiseSection() (report.Section, error) {
 		{Name: "excitation", Value: excitation},
 		{Name: "trapped charge", Value: fmt.Sprintf("%g pu", res.TrappedPU)},
 		{Name: "per-unit base", Value: fmt.Sprintf("peak phase-to-earth EMF, %.1f kV", res.BaseKV)},
-		{Name: "receiving-end peak", Value: fmt.Sprintf("%+.3f pu (%+.0f kV) at %.3f ms", res.PeakPU, res.PeakKV, res.TPeakMs), Flag: math.Abs(res.PeakPU) > energisePeakScreenPU},
+		{Name: "receiving-end peak", Value: fmt.Sprintf("%+.3f pu (%+.0f kV) at %.3f ms", res.PeakPU, res.PeakKV, res.TPeakMs), Flag: peakOver},
 		{Name: "sending-end peak", Value: fmt.Sprintf("%+.3f pu at %.3f ms", res.PeakSendingPU, res.TPeakSendingMs)},
 		{Name: "travel time", Value: fmt.Sprintf("%.4g ms", res.TravelTimeMs)},
-		{Name: "duration, time step", Value: fmt.Sprintf("%g ms, %.4g µs", res.DurationMs, res.TimeStepUs)},
+		{Name: "duration, time step", Value: fmt.Sprintf("%.4g ms (%s), %.4g µs", res.DurationMs, res.DurationHow, res.TimeStepUs)},
 	}
 	var dom []string
 	for i, d := range res.Spectrum.Dominant {
@@ -837,26 +836,12 @@ func (rr *reportRun) energiseSection() (report.Section, error) {
 // can treat it, otherwise of the line alone from an ideal source (travel times and
 // reflections of the line, said so in the note).
 func (rr *reportRun) latticeFigure(res energiseResult) (*report.Figure, string, error) {
-	d, note := res.diagram, ""
-	if d == nil {
-		lat, err := computeEnergise(rr.st, "lattice")
-		if err != nil && !cannotRun(err) {
-			return nil, "", err
-		}
-		if err != nil {
-			alone := *rr.st
-			alone.Network.Source = freqscan.Source{}
-			alone.Network.Shunts = nil
-			lat, err = computeEnergise(&alone, "lattice")
-			if err != nil {
-				if cannotRun(err) {
-					return nil, "lattice diagram not drawn: " + err.Error(), nil
-				}
-				return nil, "", err
-			}
-			note = "The lattice method treats only a resistive source without shunts, so the lattice diagram shows the line alone, energised from an ideal source: its travel times and reflections, not the study's source and reactors."
-		}
-		d = lat.diagram
+	d, note, err := latticeDiagram(rr.st, res)
+	if err != nil {
+		return nil, "", err
+	}
+	if note != "" {
+		note = strings.ToUpper(note[:1]) + note[1:] + "."
 	}
 	if d == nil {
 		return nil, note, nil
@@ -889,15 +874,18 @@ func (rr *reportRun) loadingSection() (report.Section, error) {
 	rise := o.RiseWithShuntsPU
 	sec.Reading = fmt.Sprintf("SIL %.0f MW; open-end rise %.3f pu with the line-connected shunts (%.3f for the line alone); loadability %.2f SIL (%.0f MW), %s governs",
 		r.SILMW, rise, o.RisePU, la.SIL, la.MW, la.Governs)
-	if rise > openEndRiseScreenPU {
+	lim := openEndLimit(rr.st)
+	if rise > lim.Value {
 		sec.Verdict = report.Flagged
-		sec.Reading += fmt.Sprintf("; the open-end rise is above the %.2f pu screening level", openEndRiseScreenPU)
+		sec.Reading += "; the open-end rise is above the " + lim.From
+	} else {
+		sec.Reading += "; the open-end rise is within the " + lim.From
 	}
 	sec.Facts = []report.Fact{
 		{Name: "SIL", Value: fmt.Sprintf("%.1f MW", r.SILMW)},
 		{Name: "largest power, both ends at 1 pu", Value: fmt.Sprintf("%.1f MW (%.2f SIL) at %.1f°", r.PMaxMW, r.PMaxMW/r.SILMW, r.DeltaAtPMaxDeg)},
 		{Name: "open-end rise, line alone", Value: fmt.Sprintf("%.4f pu, charging %.1f Mvar", o.RisePU, o.ChargingMvar)},
-		{Name: "open-end rise, with line-connected shunts", Value: fmt.Sprintf("%.4f pu, charging %.1f Mvar", o.RiseWithShuntsPU, o.ChargingShuntsMvar), Flag: rise > openEndRiseScreenPU},
+		{Name: "open-end rise, with line-connected shunts", Value: fmt.Sprintf("%.4f pu, charging %.1f Mvar", o.RiseWithShuntsPU, o.ChargingShuntsMvar), Flag: rise > lim.Value},
 		{Name: "open end from the source EMF |Vr/E|", Value: fmt.Sprintf("%.4f pu", o.RiseFromEMFPU)},
 		{Name: fmt.Sprintf("receiving-end reactor for %.3g pu", o.TargetPU), Value: fmt.Sprintf("%.1f Mvar on the bare line, %.1f Mvar beyond the study's shunts", o.ReactorMvar, o.ReactorAddedMvar)},
 		{Name: "loadability", Value: fmt.Sprintf("%.2f SIL (%.0f MW): voltage drop %.2f SIL, stability %.2f SIL; %s governs", la.SIL, la.MW, la.VoltageDropSIL, la.StabilitySIL, la.Governs)},

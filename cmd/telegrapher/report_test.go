@@ -344,19 +344,22 @@ func BenchmarkDemoReport(b *testing.B) {
 	}
 }
 
-func TestOrdinal(t *testing.T) {
+// A whole harmonic order reads as an English ordinal; a fractional one as "harmonic
+// order 2.3" (no ordinal suffix fits a fraction: "the 2.3th" is not English).
+func TestHarmonicAt(t *testing.T) {
 	t.Parallel()
 	for _, tc := range []struct {
 		h    float64
 		want string
-	}{{1, "1st"}, {2, "2nd"}, {3, "3rd"}, {4, "4th"}, {11, "11th"}, {12, "12th"}, {13, "13th"}, {21, "21st"}, {4.13, "4.1th"}} {
-		if got := ordinal(tc.h); got != tc.want {
-			t.Errorf("ordinal(%g) = %q, want %q", tc.h, got, tc.want)
+	}{{1, "the 1st harmonic"}, {2, "the 2nd harmonic"}, {3, "the 3rd harmonic"}, {4, "the 4th harmonic"},
+		{11, "the 11th harmonic"}, {12, "the 12th harmonic"}, {13, "the 13th harmonic"}, {21, "the 21st harmonic"},
+		{112, "the 112th harmonic"}, {4.13, "harmonic order 4.1"}, {2.3, "harmonic order 2.3"}} {
+		if got := harmonicAt(tc.h); got != tc.want {
+			t.Errorf("harmonicAt(%g) = %q, want %q", tc.h, got, tc.want)
 		}
 	}
 }
 
-// TestDemoCable: the built-in sectioned study reports its sections.
 func TestDemoCable(t *testing.T) {
 	t.Parallel()
 	out := filepath.Join(t.TempDir(), "cable")

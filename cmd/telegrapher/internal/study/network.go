@@ -459,8 +459,12 @@ func (ld *Loader) energise(t *Table) {
 	}
 	t.Positive("duration_ms", ms)
 	t.AtMost("duration_ms", ms, 10_000)
-	e.Duration = ms / 1e3
-	note("duration_ms", fmt.Sprintf("%g ms", ms), ok)
+	e.Duration, e.DurationGiven = ms/1e3, ok
+	if ok {
+		note("duration_ms", fmt.Sprintf("%g ms", ms), ok)
+	} else {
+		note("duration_ms", "chosen from the network's slowest oscillation, at least 20 ms", ok)
+	}
 	us, ok := t.Float("time_step_us")
 	t.NonNegative("time_step_us", us)
 	if !ld.Failed() && us > 0 {

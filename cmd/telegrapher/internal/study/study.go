@@ -77,9 +77,13 @@ type EnergiseSettings struct {
 	Waveform  string  // "step" or "sine"
 	CloseDeg  float64 // EMF phase angle at t = 0 (sine)
 	TrappedPU float64 // line voltage at closing, pu
-	Duration  float64 // s
+	Duration  float64 // s; without duration_ms 20 ms, extended by the energise command (see DurationGiven)
 	TimeStep  float64 // s; 0 = chosen by the method
 	Method    string  // "lattice", "bergeron" or "laplace"
+
+	// DurationGiven: duration_ms was given; otherwise the command chooses the
+	// duration from the network (at least Duration).
+	DurationGiven bool
 }
 
 // SwitchingSettings is [switching] in SI units.
