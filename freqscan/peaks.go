@@ -228,3 +228,17 @@ func halfPower(fn func(float64) float64, pts []Point, vals []float64, i int, fp,
 	}
 	return 0, false
 }
+
+// FirstResonance returns the lowest-frequency peak of peaks (as Peaks returns them,
+// by frequency) that magnifies, Gain > 1 (or Unbounded); ok is false when none does.
+// A local maximum of the gain below 1, such as the shallow low-frequency bump of a
+// line between a source and a far system, is a peak but not a resonance that
+// magnifies a harmonic voltage (common practice, no source).
+func FirstResonance(peaks []Peak) (p Peak, ok bool) {
+	for _, pk := range peaks {
+		if pk.Unbounded || pk.Gain > 1 {
+			return pk, true
+		}
+	}
+	return Peak{}, false
+}

@@ -50,10 +50,7 @@ func SourceStrength(n Network, v, xr, f0, scMin, scMax float64, steps int, freqs
 		for j, p := range pts {
 			row[j] = p.Gain
 		}
-		var first Peak
-		if pk := Peaks(nn, pts); len(pk) > 0 {
-			first = pk[0]
-		}
+		first, _ := FirstResonance(Peaks(nn, pts))
 		m.Gain = append(m.Gain, row)
 		m.First = append(m.First, first)
 		m.Source = append(m.Source, nn.Source)

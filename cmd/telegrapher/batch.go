@@ -160,12 +160,10 @@ func screenLine(file string, bl batchLine) (batchResult, error) {
 		return batchResult{}, err
 	}
 	r.GainLimit = sc.GainLimit
-	for _, p := range sc.Peaks {
-		if r.FirstHz == 0 || p.FHz < r.FirstHz {
-			r.FirstHz, r.FirstHarmonic, r.FirstGain = p.FHz, p.Harmonic, p.Gain
-			if p.Unbounded {
-				r.FirstGain = math.Inf(1)
-			}
+	if p := firstResonance(sc.Peaks); p != nil {
+		r.FirstHz, r.FirstHarmonic, r.FirstGain = p.FHz, p.Harmonic, p.Gain
+		if p.Unbounded {
+			r.FirstGain = math.Inf(1)
 		}
 	}
 	for _, h := range sc.Harmonics {

@@ -113,7 +113,7 @@ type remedyFigs struct {
 	OpenEnd, Gain    float64 // open-end |Vr/Vs|; largest watched-harmonic band gain
 	U2, Margin       float64 // u2 (pu, IEC 60071-1 base); margin to siwl (%)
 	HasSw, HasMargin bool    // switching figures computed; margin computed
-	FirstResonanceHz float64 // lowest positive-sequence gain peak above the fundamental; 0 = none
+	FirstResonanceHz float64 // lowest positive-sequence gain peak above the fundamental with gain > 1; 0 = none
 }
 
 // remedyEval is a candidate with its figures and how far it is from the targets.
@@ -271,7 +271,7 @@ func remedyWatchedGain(st *study.Study, freqs []float64) (gain, first float64) {
 		}
 	}
 	for _, p := range posPeaks {
-		if p.F > 1.05*st.Frequency {
+		if p.F > 1.05*st.Frequency && (p.Unbounded || p.Gain > 1) {
 			first = p.F
 			break
 		}

@@ -593,12 +593,7 @@ func (rr *reportRun) scanSection() (report.Section, error) {
 		sec.Verdict = report.Flagged
 	}
 	// The first resonance and the worst watched harmonic.
-	var first *scanPeak
-	for i := range res.Peaks {
-		if first == nil || res.Peaks[i].FHz < first.FHz {
-			first = &res.Peaks[i]
-		}
-	}
+	first := firstResonance(res.Peaks)
 	var worst *scanHarmonic
 	for i := range res.Harmonics {
 		h := &res.Harmonics[i]
@@ -608,7 +603,7 @@ func (rr *reportRun) scanSection() (report.Section, error) {
 	}
 	switch {
 	case first == nil:
-		sec.Reading = fmt.Sprintf("no resonance of the gain between %g and %g Hz", res.FMinHz, res.FMaxHz)
+		sec.Reading = fmt.Sprintf("no resonance magnifying the gain above 1 between %g and %g Hz", res.FMinHz, res.FMaxHz)
 	case first.Unbounded:
 		sec.Reading = fmt.Sprintf("first resonance at %s (%.4g Hz), unbounded gain (lossless network)", harmonicAt(first.Harmonic), first.FHz)
 	default:

@@ -177,6 +177,19 @@ type scanPoint struct {
 	ZRecvOhm    complex128 `json:"z_receiving_ohm"`
 }
 
+// firstResonance returns the lowest-frequency peak of peaks that magnifies (gain > 1
+// or unbounded), as freqscan.FirstResonance, or nil.
+func firstResonance(peaks []scanPeak) *scanPeak {
+	var first *scanPeak
+	for i := range peaks {
+		p := &peaks[i]
+		if (p.Unbounded || p.Gain > 1) && (first == nil || p.FHz < first.FHz) {
+			first = p
+		}
+	}
+	return first
+}
+
 type scanPeak struct {
 	FHz         float64 `json:"f_hz"`
 	Harmonic    float64 `json:"harmonic"`
@@ -522,10 +535,10 @@ func scanStrength(st *study.Study, res *scanResult, fallback bool) (*scanStrengt
 		nn.Source = m.Source[i]
 		pts = freqscan.Scan(pts, nn, full)
 		first := scanStrengthFirst{ShortCircuitMVA: sc / 1e6, None: true}
-		if pk := freqscan.Peaks(nn, pts); len(pk) > 0 {
-			m.First[i] = pk[0]
-			first = scanStrengthFirst{ShortCircuitMVA: sc / 1e6, FHz: pk[0].F, Harmonic: pk[0].F / f0,
-				Gain: pk[0].Gain, Unbounded: pk[0].Unbounded}
+		if pk, ok := freqscan.FirstResonance(freqscan.Peaks(nn, pts)); ok {
+			m.First[i] = pk
+			first = scanStrengthFirst{ShortCircuitMVA: sc / 1e6, FHz: pk.F, Harmonic: pk.F / f0,
+				Gain: pk.Gain, Unbounded: pk.Unbounded}
 		} else {
 			m.First[i] = freqscan.Peak{}
 		}

@@ -59,8 +59,10 @@ func TestDemoVerdictsUseTargets(t *testing.T) {
 		"u2 above the target max_u2_pu = 2 from [targets]", "below the target min_margin_pct = 15 from [targets]")
 	checkRow(t, rows, "Loading against SIL", "within limits", "target max_open_end_pu = 1 from [targets]")
 	checkRow(t, rows, "Energisation (far end open)", "within limits", "2.0 pu screening level", "[targets] has no energisation target")
-	checkRow(t, rows, "Harmonic scan", "flagged", "first resonance at harmonic order 4.4")
-	if r := rows["Harmonic scan"][1]; strings.Contains(r, ".4th") {
+	// With the far system in the scan (8000 MVA at Calder Rise) the first resonance that
+	// magnifies is near h 7.2; the shallow 1.3 Hz bump (gain 0.16) is not one.
+	checkRow(t, rows, "Harmonic scan", "flagged", "first resonance at harmonic order 7.2")
+	if r := rows["Harmonic scan"][1]; strings.Contains(r, ".2th") || strings.Contains(r, "order 0.0") {
 		t.Errorf("fractional harmonic order written as an ordinal: %s", r)
 	}
 }
