@@ -182,6 +182,7 @@ func computeRemedyProgress(st *study.Study, status *statusLine) (remedyResult, e
 	if !spec.Present {
 		return res, usagef("%s: targets: the study has no [targets]; give e.g. [targets] max_open_end_pu = 1.05 and [levers] reactor_mvar_receiving = [0, 300]", st.File)
 	}
+	st = memoLines(st)
 	rs, err := newRemedySearch(st, status)
 	if err != nil {
 		return res, err

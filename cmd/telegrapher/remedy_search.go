@@ -185,6 +185,21 @@ func newRemedySearch(st *study.Study, status *statusLine) (*remedySearch, error)
 	return rs, nil
 }
 
+// memoLines returns a copy of st whose line constants remember their values per
+// frequency (propagation.Memo): every candidate of a search scans the same line at
+// the same frequencies, and only the terminations change.
+func memoLines(st *study.Study) *study.Study {
+	cp := *st
+	cp.Line, cp.Zero = propagation.MemoCascade(st.Line), propagation.MemoCascade(st.Zero)
+	cp.Network.Line = propagation.MemoCascade(st.Network.Line)
+	if st.ZeroNetwork != nil {
+		zn := *st.ZeroNetwork
+		zn.Line = propagation.MemoCascade(zn.Line)
+		cp.ZeroNetwork = &zn
+	}
+	return &cp
+}
+
 // remedyStudy returns a copy of st with the candidate's changes: added line-connected
 // reactors in the positive- and zero-sequence networks (the loader gives the zero
 // sequence the same shunts, solidly earthed or, for line-connected reactors, through
