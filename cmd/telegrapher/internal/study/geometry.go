@@ -63,9 +63,6 @@ func init() {
 	// [line.geometry] and [line.sections.geometry]: the section's positive- and
 	// zero-sequence constants from the tower.
 	RegisterSection(SectionHook{Key: "geometry", Build: func(ld *Loader, section, sub *Table) (pos, zero propagation.Constants, err error) {
-		if ld.Failed() {
-			return nil, nil, nil
-		}
 		if !sub.Present() {
 			return nil, nil, geoErrorf(ld.File, sub.Path(), "must be a table [%s]", sub.Path())
 		}

@@ -15,9 +15,6 @@ import (
 //
 //	|Z| = V²/S,  R = |Z|/sqrt(1 + (X/R)²),  X = R·(X/R),  L = X/ω
 func (ld *Loader) source(t *Table) {
-	if ld.Failed() {
-		return
-	}
 	sp := &ld.Study.Source
 	sp.X0OverX1 = 1
 	if k, ok := t.Float("x0_over_x1"); ok {
@@ -25,6 +22,7 @@ func (ld *Loader) source(t *Table) {
 		t.AtMost("x0_over_x1", k, 1000)
 		sp.X0OverX1, sp.HasX0OverX1 = k, true
 	}
+	m := ld.mark() // an unknown key or a wrong type below hides which form is meant
 	if !t.Present() {
 		sp.Ideal = true
 		ld.Note("source", "ideal (zero impedance)", "default: no [source]")
@@ -35,7 +33,7 @@ func (ld *Loader) source(t *Table) {
 	scForm := t.Has("short_circuit_mva") || t.Has("x_over_r")
 	rlForm := t.Has("r_ohm") || t.Has("l_mh") || t.Has("x_ohm")
 	switch {
-	case ld.Failed():
+	case ld.failedSince(m):
 		return
 	case scForm && rlForm:
 		first := "short_circuit_mva"
@@ -58,7 +56,7 @@ func (ld *Loader) source(t *Table) {
 		t.AtMost("short_circuit_mva", s, maxMVA)
 		t.Positive("x_over_r", k)
 		t.AtMost("x_over_r", k, 1e4)
-		if ld.Failed() {
+		if ld.failedSince(m) {
 			return
 		}
 		z := v * v / (s * 1e6)
@@ -70,9 +68,6 @@ func (ld *Loader) source(t *Table) {
 		ld.Note("source.l_mh", fmt.Sprintf("%.6g mH (X = %.6g ohm at %g Hz)", sp.L*1e3, r*k, ld.Study.Frequency), "from X/R")
 	case rlForm:
 		r := required(t, "r_ohm", "r_ohm = 0.9")
-		if ld.Failed() {
-			return
-		}
 		t.NonNegative("r_ohm", r)
 		t.AtMost("r_ohm", r, 1e6)
 		sp.R = r
@@ -91,14 +86,12 @@ func (ld *Loader) source(t *Table) {
 			sp.L = x / w
 			ld.Note("source.l_mh", fmt.Sprintf("%.6g mH", sp.L*1e3), fmt.Sprintf("from x_ohm = %g ohm at %g Hz", x, ld.Study.Frequency))
 		default:
-			if !ld.Failed() {
+			if !t.Has("l_mh") && !t.Has("x_ohm") {
 				t.Errorf("l_mh", "missing: give the source inductance l_mh (0 for a resistive source) or reactance x_ohm, with r_ohm")
 			}
 		}
 	default:
-		if !ld.Failed() {
-			t.Errorf("short_circuit_mva", "missing: give short_circuit_mva with x_over_r, or r_ohm with l_mh (or x_ohm); leave out [source] for an ideal source")
-		}
+		t.Errorf("short_circuit_mva", "missing: give short_circuit_mva with x_over_r, or r_ohm with l_mh (or x_ohm); leave out [source] for an ideal source")
 		return
 	}
 	if sp.HasX0OverX1 {
@@ -112,9 +105,6 @@ func (ld *Loader) source(t *Table) {
 // shunts reads [[shunt]]: a rating Q at voltage_kv and frequency_hz gives X = V²/|Q|;
 // a reactor L = X/ω, a capacitor C = 1/(ωX); q_factor gives R = X/q in series.
 func (ld *Loader) shunts(root *Table) {
-	if ld.Failed() {
-		return
-	}
 	tabs := root.Subs("shunt")
 	if len(tabs) > MaxShunts {
 		root.Errorf("shunt", "must have at most %d entries, got %d", MaxShunts, len(tabs))
@@ -122,25 +112,22 @@ func (ld *Loader) shunts(root *Table) {
 	}
 	w, v := ld.omega(), ld.Study.Voltage
 	for _, t := range tabs {
+		m := ld.mark()
 		t.Known(shuntKeys...)
 		name, _ := t.String("name")
 		at, ok := t.String("at")
-		if !ok && !ld.Failed() {
+		if !ok && !t.Has("at") {
 			t.Errorf("at", `missing: give at = "sending" or at = "receiving"`)
 		}
 		t.OneOf("at", at, "sending", "receiving")
 		conn, ok := t.String("connection")
-		if !ok && !ld.Failed() {
+		if !ok && !t.Has("connection") {
 			t.Errorf("connection", `missing: give connection = "line" (switched with the line) or connection = "bus"`)
 		}
 		t.OneOf("connection", conn, "line", "bus")
 		q := required(t, "mvar", "mvar = 150 (a reactor; negative for a capacitor)")
-		if ld.Failed() {
-			return
-		}
-		if q == 0 {
+		if q == 0 && t.Has("mvar") {
 			t.Errorf("mvar", "must not be 0 (> 0 reactor, < 0 capacitor), got 0")
-			return
 		}
 		t.AtMost("mvar", math.Abs(q), maxMVA)
 		sh := freqscan.Shunt{Name: name, OnLine: conn == "line"}
@@ -159,14 +146,11 @@ func (ld *Loader) shunts(root *Table) {
 		if qf, ok := t.Float("q_factor"); ok {
 			t.Positive("q_factor", qf)
 			t.AtMost("q_factor", qf, 1e6)
-			if ld.Failed() {
-				return
-			}
 			sh.R = x / qf
 			losses = fmt.Sprintf("q_factor %g: R = %.6g ohm in series", qf, sh.R)
 		}
-		if ld.Failed() {
-			return
+		if ld.failedSince(m) {
+			continue
 		}
 		val := fmt.Sprintf("%g Mvar %s at the %s end, %s-connected; ", math.Abs(q), kind, at, conn)
 		if sh.L > 0 {
@@ -182,10 +166,8 @@ func (ld *Loader) shunts(root *Table) {
 // receiving reads [receiving]: the load R = V²/P in parallel with L = V²/(Qω) (Q > 0)
 // or C = |Q|/(V²ω) (Q < 0), and the receiving-end system for loadability.
 func (ld *Loader) receiving(t *Table) {
-	if ld.Failed() || !t.Present() {
-		if !t.Present() {
-			ld.Note("receiving", "nothing beyond the line", "default: no [receiving]")
-		}
+	if !t.Present() {
+		ld.Note("receiving", "nothing beyond the line", "default: no [receiving]")
 		return
 	}
 	t.Known(receivingKeys...)
@@ -232,9 +214,6 @@ func (ld *Loader) receiving(t *Table) {
 
 // build assembles the positive- and zero-sequence networks.
 func (ld *Loader) build() {
-	if ld.Failed() {
-		return
-	}
 	st := ld.Study
 	st.Network.Source = freqscan.Source{R: st.Source.R, L: st.Source.L}
 	st.Network.Line = st.Line
@@ -254,9 +233,6 @@ func (ld *Loader) build() {
 
 // scan reads [scan].
 func (ld *Loader) scan(t *Table) {
-	if ld.Failed() {
-		return
-	}
 	t.Known(scanKeys...)
 	sc := &ld.Study.Scan
 	f0 := ld.Study.Frequency
@@ -268,6 +244,7 @@ func (ld *Loader) scan(t *Table) {
 		ld.Note("scan."+key, val, how)
 	}
 	var ok bool
+	m := ld.mark()
 	if sc.FMin, ok = t.Float("f_min_hz"); ok {
 		t.Positive("f_min_hz", sc.FMin)
 	} else {
@@ -278,7 +255,7 @@ func (ld *Loader) scan(t *Table) {
 		sc.FMax = 50 * f0
 	}
 	t.AtMost("f_max_hz", sc.FMax, maxScanHz)
-	if !ld.Failed() && !(sc.FMax > sc.FMin) {
+	if !ld.failedSince(m) && !(sc.FMax > sc.FMin) {
 		t.Errorf("f_max_hz", "must be > f_min_hz (%g), got %g", sc.FMin, sc.FMax)
 	}
 	note("f_max_hz", fmt.Sprintf("%g Hz", sc.FMax), ok)
@@ -358,8 +335,9 @@ func (ld *Loader) scan(t *Table) {
 // harmonicTable reads an inline table keyed by harmonic number, e.g. { 5 = 1.5 }, with
 // values in percent (0 to 100).
 func (ld *Loader) harmonicTable(t *Table, key string) map[int]float64 {
+	m := ld.mark()
 	sub := t.Sub(key)
-	if ld.Failed() || !sub.Present() {
+	if ld.failedSince(m) || !sub.Present() {
 		return nil
 	}
 	out := map[int]float64{}
@@ -368,13 +346,13 @@ func (ld *Loader) harmonicTable(t *Table, key string) map[int]float64 {
 		h, err := strconv.Atoi(k)
 		if err != nil || h < 1 || h > 1000 {
 			sub.Errorf(k, "must be a harmonic number 1 to 1000 as key, e.g. { 5 = 1.5, 7 = 1.0 }")
-			return nil
+			continue
 		}
 		v, _ := sub.Float(k)
 		sub.Between(k, v, 0, 100)
 		out[h] = v
 	}
-	if ld.Failed() {
+	if ld.failedSince(m) {
 		return nil
 	}
 	return out
@@ -382,9 +360,6 @@ func (ld *Loader) harmonicTable(t *Table, key string) map[int]float64 {
 
 // energise reads [energise].
 func (ld *Loader) energise(t *Table) {
-	if ld.Failed() {
-		return
-	}
 	t.Known(energiseKeys...)
 	e := &ld.Study.Energise
 	note := func(key, val string, given bool) {
@@ -414,6 +389,7 @@ func (ld *Loader) energise(t *Table) {
 	e.TrappedPU, ok = t.Float("trapped_pu")
 	t.Between("trapped_pu", e.TrappedPU, -2, 2)
 	note("trapped_pu", fmt.Sprintf("%g pu", e.TrappedPU), ok)
+	md := ld.mark()
 	ms, ok := t.Float("duration_ms")
 	if !ok {
 		ms = 20
@@ -424,7 +400,7 @@ func (ld *Loader) energise(t *Table) {
 	note("duration_ms", fmt.Sprintf("%g ms", ms), ok)
 	us, ok := t.Float("time_step_us")
 	t.NonNegative("time_step_us", us)
-	if !ld.Failed() && us > 0 {
+	if !ld.failedSince(md) && us > 0 {
 		if n := ms * 1e3 / us; n > MaxSamples {
 			t.Errorf("time_step_us", "gives %.0f samples over duration_ms = %g; at most %d, so time_step_us must be at least %g, got %g", n, ms, MaxSamples, ms*1e3/MaxSamples, us)
 		}
