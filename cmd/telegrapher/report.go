@@ -233,6 +233,9 @@ func inputsSection(st *study.Study) report.Section {
 	if len(t.Rows) > 0 {
 		sec.Tables = []report.TableView{{Caption: "Settings as understood (SI conversions done once, at load)", Table: t}}
 	}
+	for _, w := range st.Warnings {
+		sec.Notes = append(sec.Notes, "Warning: "+w)
+	}
 	return sec
 }
 
@@ -452,7 +455,7 @@ wrote it (it holds a .telegrapher-report marker) or is empty; anything else need
 				if *out == "" {
 					return usagef("telegrapher report: --out DIR is required\nusage: telegrapher report STUDY --out DIR [--force]")
 				}
-				st, err := studyArg("report", args)
+				st, err := studyArg("report", args, stderr)
 				if err != nil {
 					return err
 				}

@@ -408,6 +408,7 @@ func (ld *Loader) section(t *Table, named bool) (pos, zero *propagation.Line) {
 			t.Errorf(h.Key, "gives no line constants")
 			return nil, nil
 		}
+		ld.plausible(t, name, p, z, true)
 		pos = &propagation.Line{Name: name, Length: length * 1e3, Constants: p}
 		if z != nil {
 			zero = &propagation.Line{Name: name, Length: length * 1e3, Constants: z}
@@ -422,6 +423,14 @@ func (ld *Loader) section(t *Table, named bool) (pos, zero *propagation.Line) {
 	var z propagation.RLGC
 	if anyZero {
 		z = ld.rlgc(t, "0", "zero-sequence")
+	}
+	if ld.failedSince(m) {
+		return nil, nil
+	}
+	if anyZero {
+		ld.plausible(t, name, rl, z, false)
+	} else {
+		ld.plausible(t, name, rl, nil, false)
 	}
 	if ld.failedSince(m) {
 		return nil, nil

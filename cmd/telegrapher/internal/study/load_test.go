@@ -205,9 +205,9 @@ var ruleCases = []struct {
 	{"energise step negative", base + "[energise]\ntime_step_us = -1\n", "energise.time_step_us", "must be >= 0"},
 	{"energise samples cap", base + "[energise]\nduration_ms = 10000\ntime_step_us = 0.0001\n", "energise.time_step_us", "samples"},
 	{"energise trapped", base + "[energise]\ntrapped_pu = 5\n", "energise.trapped_pu", "between"},
-	{"sections with line keys", "frequency_hz = 50\nvoltage_kv = 400\n[line]\nlength_km = 3\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 10\n", "line.length_km", "sections"},
-	{"section bad", "frequency_hz = 50\nvoltage_kv = 400\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 10\n[[line.sections]]\nlength_km = -1\n", "line.sections[1].length_km", "must be > 0"},
-	{"section zero partial", "frequency_hz = 50\nvoltage_kv = 400\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 10\nr0_ohm_per_km = 0.3\nl0_mh_per_km = 3\nc0_nf_per_km = 6\n[[line.sections]]\nlength_km = 2\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 10\n", "line.sections[1].r0_ohm_per_km", "every section"},
+	{"sections with line keys", "frequency_hz = 50\nvoltage_kv = 400\n[line]\nlength_km = 3\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\n", "line.length_km", "sections"},
+	{"section bad", "frequency_hz = 50\nvoltage_kv = 400\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\n[[line.sections]]\nlength_km = -1\n", "line.sections[1].length_km", "must be > 0"},
+	{"section zero partial", "frequency_hz = 50\nvoltage_kv = 400\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\nr0_ohm_per_km = 0.3\nl0_mh_per_km = 3\nc0_nf_per_km = 6\n[[line.sections]]\nlength_km = 2\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\n", "line.sections[1].r0_ohm_per_km", "every section"},
 	{"frequency cap", replace("frequency_hz", "frequency_hz = 1e6"), "frequency_hz", "at most"},
 	{"voltage cap", replace("voltage_kv", "voltage_kv = 1e5"), "voltage_kv", "at most"},
 	{"scan f_max cap", base + "[scan]\nf_max_hz = 1e9\n", "scan.f_max_hz", "at most"},
@@ -371,7 +371,7 @@ func BenchmarkParseSections1000(b *testing.B) {
 	var sb strings.Builder
 	sb.WriteString("frequency_hz = 50\nvoltage_kv = 400\n")
 	for i := 0; i < MaxSections; i++ {
-		sb.WriteString("[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 10\nr0_ohm_per_km = 0.3\nl0_mh_per_km = 3\nc0_nf_per_km = 6\n")
+		sb.WriteString("[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\nr0_ohm_per_km = 0.3\nl0_mh_per_km = 3\nc0_nf_per_km = 6\n")
 	}
 	data := []byte(sb.String())
 	b.ResetTimer()
@@ -389,7 +389,7 @@ func TestEveryProblemAtOnce(t *testing.T) {
 	t.Parallel()
 	manySections := "frequency_hz = 50\nvoltage_kv = 400\n"
 	for range 30 {
-		manySections += "[[line.sections]]\nlength_km = -1\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 10\n"
+		manySections += "[[line.sections]]\nlength_km = -1\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\n"
 	}
 	for _, c := range []struct {
 		name, src string
@@ -424,7 +424,7 @@ method = "bergron"
 		{"typo in source", base + "[source]\nshort_circuit_mv = 15000\nx_over_r = 12\n", []string{"source.short_circuit_mv"}, 0},
 		{"both l and x once", base + "x_ohm_per_km = 0.3\n", []string{"line.x_ohm_per_km"}, 0},
 		{"bad duration not also a bad step", base + "[energise]\nduration_ms = -1\ntime_step_us = 5\n", []string{"energise.duration_ms"}, 0},
-		{"sections each", "frequency_hz = 50\nvoltage_kv = 400\n[[line.sections]]\nlength_km = -3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 10\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\n",
+		{"sections each", "frequency_hz = 50\nvoltage_kv = 400\n[[line.sections]]\nlength_km = -3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\n",
 			[]string{"line.sections[0].length_km", "line.sections[1].c_nf_per_km"}, 0},
 		{"capped", manySections, nil, 30 - MaxErrors},
 	} {
