@@ -248,14 +248,32 @@ func required(t *Table, key, example string) float64 {
 	return v
 }
 
-// Upper bounds that catch typing errors (values beyond are not power lines).
+// Bounds of the core keys: beyond them a value is a typing error rather than a power
+// line, or too small for the numerics to mean anything (a subnormal resistance, a
+// frequency of 1e-320 Hz). README's key tables list them.
 const (
-	maxFrequencyHz = 1e4  // system frequency
-	maxVoltageKV   = 2000 // line-to-line
-	maxLengthKm    = 1e4  // a line or section
-	maxPerKm       = 1e6  // any per-km constant in its unit
+	minFrequencyHz = 1    // system frequency
+	maxFrequencyHz = 1e4  //
+	minVoltageKV   = 1    // line-to-line
+	maxVoltageKV   = 2000 //
+	minLengthKm    = 0.01 // a line or section: 10 m
+	maxLengthKm    = 1e4  //
 	maxMVA         = 1e7  // powers
 	maxScanHz      = 1e7  // scan frequencies
+	minScanHz      = 1e-3 //
+)
+
+// Bounds of the per-length constants, in the units of their keys; r and g may also be
+// 0 (lossless). The same hold for the zero sequence and for every section; x and b are
+// held to the l and c bounds at frequency_hz. The lower l and c bounds are low enough
+// that a unit slip (uF/km in the nF/km key, H/km in the mH/km key) meets the speed
+// of light first, whose message says what is wrong: at either lower bound no
+// partner within the other's bounds gives a line slower than light.
+var (
+	rBounds = [2]float64{1e-6, 1000} // ohm/km
+	lBounds = [2]float64{1e-4, 100}  // mH/km
+	cBounds = [2]float64{1e-3, 1e4}  // nF/km
+	gBounds = [2]float64{1e-6, 1e4}  // uS/km (far above any line: tests force overflow with it)
 )
 
 func (ld *Loader) system(root *Table) {
@@ -267,10 +285,12 @@ func (ld *Loader) system(root *Table) {
 	f := required(root, "frequency_hz", "frequency_hz = 50")
 	root.Positive("frequency_hz", f)
 	root.AtMost("frequency_hz", f, maxFrequencyHz)
+	root.Between("frequency_hz", f, minFrequencyHz, maxFrequencyHz)
 	mv := ld.mark()
 	v := required(root, "voltage_kv", "voltage_kv = 400")
 	root.Positive("voltage_kv", v)
 	root.AtMost("voltage_kv", v, maxVoltageKV)
+	root.Between("voltage_kv", v, minVoltageKV, maxVoltageKV)
 	vOK := !ld.failedSince(mv)
 	st.Frequency, st.Voltage = f, v*1e3
 	ld.Note("frequency_hz", fmt.Sprintf("%g Hz", f), "given")
@@ -385,6 +405,7 @@ func (ld *Loader) section(t *Table, named bool) (pos, zero *propagation.Line) {
 	length := required(t, "length_km", "length_km = 320")
 	t.Positive("length_km", length)
 	t.AtMost("length_km", length, maxLengthKm)
+	t.Between("length_km", length, minLengthKm, maxLengthKm)
 	ld.Note(t.KeyPath("length_km"), fmt.Sprintf("%g km", length), "given")
 	if named && name != "" {
 		ld.Note(t.KeyPath("name"), fmt.Sprintf("%q", name), "given")
@@ -457,7 +478,7 @@ func (ld *Loader) rlgc(t *Table, seq, what string) propagation.RLGC {
 	}
 	if r, ok := t.Float(rk); ok {
 		t.NonNegative(rk, r)
-		t.AtMost(rk, r, maxPerKm)
+		t.ZeroOr(rk, r, rBounds[0], rBounds[1])
 		p.R = r / 1e3
 		ld.Note(t.KeyPath(rk), fmt.Sprintf("%g ohm/km", r), "given")
 	} else if !t.Has(rk) {
@@ -468,13 +489,13 @@ func (ld *Loader) rlgc(t *Table, seq, what string) propagation.RLGC {
 	case lk:
 		l, _ := t.Float(lk)
 		t.Positive(lk, l)
-		t.AtMost(lk, l, maxPerKm)
+		t.Between(lk, l, lBounds[0], lBounds[1])
 		p.L = l * 1e-6
 		ld.Note(t.KeyPath(lk), fmt.Sprintf("%g mH/km", l), "given")
 	case xk:
 		x, _ := t.Float(xk)
 		t.Positive(xk, x)
-		t.AtMost(xk, x, maxPerKm)
+		ld.throughOmega(t, xk, x, w*1e-3, lBounds, "mH/km", "ohm/km")
 		p.L = x / w / 1e3
 		ld.Note(t.KeyPath(lk), fmt.Sprintf("%.6g mH/km", p.L*1e6), fmt.Sprintf("from %s = %g ohm/km at %g Hz", xk, x, ld.Study.Frequency))
 	default:
@@ -490,13 +511,13 @@ func (ld *Loader) rlgc(t *Table, seq, what string) propagation.RLGC {
 	case ck:
 		c, _ := t.Float(ck)
 		t.Positive(ck, c)
-		t.AtMost(ck, c, maxPerKm)
+		t.Between(ck, c, cBounds[0], cBounds[1])
 		p.C = c * 1e-12
 		ld.Note(t.KeyPath(ck), fmt.Sprintf("%g nF/km", c), "given")
 	case bk:
 		b, _ := t.Float(bk)
 		t.Positive(bk, b)
-		t.AtMost(bk, b, maxPerKm)
+		ld.throughOmega(t, bk, b, w*1e-3, cBounds, "nF/km", "uS/km")
 		p.C = b * 1e-6 / w / 1e3
 		ld.Note(t.KeyPath(ck), fmt.Sprintf("%.6g nF/km", p.C*1e12), fmt.Sprintf("from %s = %g uS/km at %g Hz", bk, b, ld.Study.Frequency))
 	default:
@@ -510,11 +531,21 @@ func (ld *Loader) rlgc(t *Table, seq, what string) propagation.RLGC {
 	}
 	if g, ok := t.Float(gk); ok {
 		t.NonNegative(gk, g)
-		t.AtMost(gk, g, maxPerKm)
+		t.ZeroOr(gk, g, gBounds[0], gBounds[1])
 		p.G = g * 1e-9
 		ld.Note(t.KeyPath(gk), fmt.Sprintf("%g uS/km", g), "given")
 	} else {
 		ld.Note(t.KeyPath(gk), "0 uS/km", "default")
 	}
 	return p
+}
+
+// throughOmega checks a reactance or susceptance v given at frequency_hz against the
+// bounds of the inductance or capacitance it stands for (v = k·x with k = ω in the
+// units at hand), and names the key as given with the bounds in its own unit.
+func (ld *Loader) throughOmega(t *Table, key string, v, k float64, b [2]float64, unit, vunit string) {
+	if x := v / k; !(x >= b[0] && x <= b[1]) {
+		t.Errorf(key, "must be between %.6g and %.6g %s (%s to %s %s at %g Hz), got %s",
+			b[0]*k, b[1]*k, vunit, num(b[0]), num(b[1]), unit, ld.Study.Frequency, num(v))
+	}
 }

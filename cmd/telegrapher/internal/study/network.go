@@ -11,6 +11,22 @@ import (
 	"github.com/telegrapher/telegrapher/freqscan"
 )
 
+// Bounds of [source], [[shunt]] and [receiving] (README's key tables list them):
+// smaller values mean nothing physical and break the numerics (an impedance of
+// 1e-320 ohm is a conductance of infinity).
+const (
+	minMVA       = 1    // short-circuit levels, MVA
+	minXOverR    = 0.1  // X/R of a system
+	maxXOverR    = 1e4  //
+	minSourceOhm = 1e-6 // source resistance when not 0, ohm
+	maxSourceOhm = 1e6  //
+	minSourceMH  = 1e-6 // source inductance when not 0, mH
+	maxSourceMH  = 1e6  //
+	minShuntMvar = 1e-3 // a shunt's rating, Mvar, in size
+	maxShuntMvar = 1e5  //
+	minLoadMW    = 1e-3 // a load's P or Q when not 0, MW or Mvar
+)
+
 // source reads [source]: a short-circuit level with X/R, or R with L (or X).
 //
 //	|Z| = V²/S,  R = |Z|/sqrt(1 + (X/R)²),  X = R·(X/R),  L = X/ω
@@ -19,7 +35,7 @@ func (ld *Loader) source(t *Table) {
 	sp.X0OverX1 = 1
 	if k, ok := t.Float("x0_over_x1"); ok {
 		t.Positive("x0_over_x1", k)
-		t.AtMost("x0_over_x1", k, 1000)
+		t.Between("x0_over_x1", k, 0.01, 100)
 		sp.X0OverX1, sp.HasX0OverX1 = k, true
 	}
 	m := ld.mark() // an unknown key or a wrong type below hides which form is meant
@@ -54,8 +70,10 @@ func (ld *Loader) source(t *Table) {
 		k := required(t, "x_over_r", "x_over_r = 12")
 		t.Positive("short_circuit_mva", s)
 		t.AtMost("short_circuit_mva", s, maxMVA)
+		t.Between("short_circuit_mva", s, minMVA, maxMVA)
 		t.Positive("x_over_r", k)
-		t.AtMost("x_over_r", k, 1e4)
+		t.AtMost("x_over_r", k, maxXOverR)
+		t.Between("x_over_r", k, minXOverR, maxXOverR)
 		if ld.failedSince(m) {
 			return
 		}
@@ -69,20 +87,22 @@ func (ld *Loader) source(t *Table) {
 	case rlForm:
 		r := required(t, "r_ohm", "r_ohm = 0.9")
 		t.NonNegative("r_ohm", r)
-		t.AtMost("r_ohm", r, 1e6)
+		t.ZeroOr("r_ohm", r, minSourceOhm, maxSourceOhm)
 		sp.R = r
 		ld.Note("source.r_ohm", fmt.Sprintf("%g ohm", r), "given")
 		switch t.Exclusive("l_mh", "x_ohm") {
 		case "l_mh":
 			l, _ := t.Float("l_mh")
 			t.NonNegative("l_mh", l)
-			t.AtMost("l_mh", l, 1e6)
+			t.ZeroOr("l_mh", l, minSourceMH, maxSourceMH)
 			sp.L = l * 1e-3
 			ld.Note("source.l_mh", fmt.Sprintf("%g mH", l), "given")
 		case "x_ohm":
 			x, _ := t.Float("x_ohm")
 			t.NonNegative("x_ohm", x)
-			t.AtMost("x_ohm", x, 1e6)
+			if x != 0 {
+				ld.throughOmega(t, "x_ohm", x, w*1e-3, [2]float64{minSourceMH, maxSourceMH}, "mH", "ohm")
+			}
 			sp.L = x / w
 			ld.Note("source.l_mh", fmt.Sprintf("%.6g mH", sp.L*1e3), fmt.Sprintf("from x_ohm = %g ohm at %g Hz", x, ld.Study.Frequency))
 		default:
@@ -129,7 +149,9 @@ func (ld *Loader) shunts(root *Table) {
 		if q == 0 && t.Has("mvar") {
 			t.Errorf("mvar", "must not be 0 (> 0 reactor, < 0 capacitor), got 0")
 		}
-		t.AtMost("mvar", math.Abs(q), maxMVA)
+		if !(math.Abs(q) >= minShuntMvar && math.Abs(q) <= maxShuntMvar) {
+			t.Errorf("mvar", "must be between %s and %s in size (> 0 reactor, < 0 capacitor), got %s", num(minShuntMvar), num(maxShuntMvar), num(q))
+		}
 		sh := freqscan.Shunt{Name: name, OnLine: conn == "line"}
 		if at == "receiving" {
 			sh.End = freqscan.Receiving
@@ -145,7 +167,7 @@ func (ld *Loader) shunts(root *Table) {
 		losses := "lossless"
 		if qf, ok := t.Float("q_factor"); ok {
 			t.Positive("q_factor", qf)
-			t.AtMost("q_factor", qf, 1e6)
+			t.Between("q_factor", qf, 1, 1e5)
 			sh.R = x / qf
 			losses = fmt.Sprintf("q_factor %g: R = %.6g ohm in series", qf, sh.R)
 		}
@@ -175,7 +197,7 @@ func (ld *Loader) receiving(t *Table) {
 	w, v := ld.omega(), ld.Study.Voltage
 	if p, ok := t.Float("load_mw"); ok {
 		t.NonNegative("load_mw", p)
-		t.AtMost("load_mw", p, maxMVA)
+		t.ZeroOr("load_mw", p, minLoadMW, maxMVA)
 		rs.LoadW = p * 1e6
 		if p > 0 {
 			ld.Study.Network.Load.R = v * v / rs.LoadW
@@ -187,7 +209,7 @@ func (ld *Loader) receiving(t *Table) {
 		}
 	}
 	if q, ok := t.Float("load_mvar"); ok {
-		t.AtMost("load_mvar", math.Abs(q), maxMVA)
+		t.ZeroOr("load_mvar", math.Abs(q), minLoadMW, maxMVA)
 		rs.LoadVar = q * 1e6
 		switch {
 		case q > 0:
@@ -205,8 +227,10 @@ func (ld *Loader) receiving(t *Table) {
 		k := required(t, "x_over_r", "x_over_r = 10")
 		t.Positive("short_circuit_mva", s)
 		t.AtMost("short_circuit_mva", s, maxMVA)
+		t.Between("short_circuit_mva", s, minMVA, maxMVA)
 		t.Positive("x_over_r", k)
-		t.AtMost("x_over_r", k, 1e4)
+		t.AtMost("x_over_r", k, maxXOverR)
+		t.Between("x_over_r", k, minXOverR, maxXOverR)
 		rs.ShortCircuitVA, rs.XOverR = s*1e6, k
 		ld.Note("receiving.short_circuit_mva", fmt.Sprintf("%g MVA, X/R %g", s, k), "given")
 	}
@@ -247,6 +271,7 @@ func (ld *Loader) scan(t *Table) {
 	m := ld.mark()
 	if sc.FMin, ok = t.Float("f_min_hz"); ok {
 		t.Positive("f_min_hz", sc.FMin)
+		t.Between("f_min_hz", sc.FMin, minScanHz, maxScanHz)
 	} else {
 		sc.FMin = 1
 	}
@@ -289,6 +314,7 @@ func (ld *Loader) scan(t *Table) {
 	note("watch_harmonics", fmt.Sprint(sc.WatchHarmonics), ok)
 	if sc.GainLimit, ok = t.Float("gain_limit"); ok {
 		t.Positive("gain_limit", sc.GainLimit)
+		t.Between("gain_limit", sc.GainLimit, 1e-3, 1e6)
 	} else {
 		sc.GainLimit = 2
 	}
@@ -298,6 +324,7 @@ func (ld *Loader) scan(t *Table) {
 		if !(pct > 0 && pct < 50) {
 			t.Errorf("watch_band_pct", "must be > 0 and < 50, got %g", pct)
 		}
+		t.Between("watch_band_pct", pct, 0.1, 49)
 	} else {
 		pct = 10
 	}
@@ -316,6 +343,8 @@ func (ld *Loader) scan(t *Table) {
 			t.Errorf("short_circuit_mva_range", "must be [min, max], got %d numbers", len(r))
 		} else if !(r[0] > 0 && r[1] > r[0] && r[1] <= maxMVA) {
 			t.Errorf("short_circuit_mva_range", "must be [min, max] with 0 < min < max <= %g, got [%g, %g]", float64(maxMVA), r[0], r[1])
+		} else if !(r[0] >= minMVA) {
+			t.Errorf("short_circuit_mva_range", "must be [min, max] with min >= %g MVA, got [%g, %g]", float64(minMVA), r[0], r[1])
 		} else {
 			sc.ShortCircuitRange = [2]float64{r[0] * 1e6, r[1] * 1e6}
 			note("short_circuit_mva_range", fmt.Sprintf("%g to %g MVA", r[0], r[1]), true)
@@ -396,6 +425,7 @@ func (ld *Loader) energise(t *Table) {
 	}
 	t.Positive("duration_ms", ms)
 	t.AtMost("duration_ms", ms, 10_000)
+	t.Between("duration_ms", ms, 1e-3, 10_000)
 	e.Duration = ms / 1e3
 	note("duration_ms", fmt.Sprintf("%g ms", ms), ok)
 	us, ok := t.Float("time_step_us")
@@ -408,6 +438,7 @@ func (ld *Loader) energise(t *Table) {
 			t.Errorf("time_step_us", "must be shorter than duration_ms (%g ms), got %g us", ms, us)
 		}
 	}
+	t.ZeroOr("time_step_us", us, 1e-3, 1e4)
 	e.TimeStep = us / 1e6
 	if us == 0 {
 		note("time_step_us", "0: chosen by the method", ok)

@@ -393,6 +393,14 @@ func (t *Table) Between(key string, v, lo, hi float64) {
 	}
 }
 
+// ZeroOr checks v == 0 or lo <= v <= hi: a quantity that may be zero (none, lossless)
+// but, when present, must be large enough to mean something to the numerics.
+func (t *Table) ZeroOr(key string, v, lo, hi float64) {
+	if v != 0 && !(v >= lo && v <= hi) {
+		t.Errorf(key, "must be 0 or between %s and %s, got %s", num(lo), num(hi), num(v))
+	}
+}
+
 // OneOf checks that s is one of the options.
 func (t *Table) OneOf(key, s string, options ...string) {
 	if contains(options, s) {
