@@ -59,6 +59,11 @@ func (ld *Loader) add(e *Error) {
 	if ld.keys == nil {
 		ld.keys = map[string]bool{}
 	}
+	for _, o := range ld.errs {
+		if o.File == e.File && o.Key == e.Key && o.Line == e.Line && o.Msg == e.Msg && o.text == e.text {
+			return // a parser returning ld.Err() hands back what is recorded already
+		}
+	}
 	if e.Key != "" {
 		if ld.keys[e.Key] {
 			ld.dropped++

@@ -119,3 +119,16 @@ func decodeForTest(src string, m *map[string]any) error {
 	_, err := toml.Decode(src, m)
 	return err
 }
+
+// A parser that returns ld.Err() hands back every problem recorded so far; Fail
+// records none of them twice, a whole-file one (no key) included.
+func TestFailKeepsEachProblemOnce(t *testing.T) {
+	t.Parallel()
+	ld, root := fakeTable(t, "a = 1\n")
+	ld.Errorf("", "a whole-file problem")
+	root.Errorf("a", "a problem of a")
+	ld.Fail("hook", ld.Err())
+	if got := strings.Count(ld.Err().Error(), "\n") + 1; got != 2 {
+		t.Errorf("%d problems after Fail(ld.Err()), want 2:\n%v", got, ld.Err())
+	}
+}
