@@ -22,16 +22,16 @@ func TestParseBatchErrors(t *testing.T) {
 		{"missing column", "name,voltage_kv\n", `LINES.csv: column "frequency_hz": missing`},
 		{"duplicate column", head + ",name\n", `LINES.csv: column "name": given twice`},
 		{"no rows", head + "\n", "LINES.csv: no lines"},
-		{"negative length", head + "\nA,400,50,-3,0.03,0.9,12\n", "LINES.csv: row 2: length_km: must be > 0, got -3"},
-		{"not a number", head + "\nA,400,50,100,x,0.9,12\n", `LINES.csv: row 2: r_ohm_per_km: not a number: "x"`},
-		{"NaN", head + "\nA,400,50,100,NaN,0.9,12\n", `LINES.csv: row 2: r_ohm_per_km: not a number: "NaN"`},
+		{"negative length", head + "\nA,400,50,-3,0.03,0.93,12.4\n", "LINES.csv: row 2: length_km: must be > 0, got -3"},
+		{"not a number", head + "\nA,400,50,100,x,0.93,12.4\n", `LINES.csv: row 2: r_ohm_per_km: not a number: "x"`},
+		{"NaN", head + "\nA,400,50,100,NaN,0.93,12.4\n", `LINES.csv: row 2: r_ohm_per_km: not a number: "NaN"`},
 		{"missing value", head + "\nA,400,50,100,0.03,,12\n", "LINES.csv: row 2: l_mh_per_km: missing value"},
 		{"short row", head + "\nA,400,50\n", "LINES.csv: row 2: has 3 fields, the header has 7"},
-		{"third row", head + "\nA,400,50,100,0.03,0.9,12\nB,400,0,100,0.03,0.9,12\n", "LINES.csv: row 3: frequency_hz: must be > 0, got 0"},
-		{"source without X/R", head + ",source_mva\nA,400,50,100,0.03,0.9,12,5000\n", "LINES.csv: row 2: x_over_r: required when source_mva is given"},
-		{"us below nominal", head + ",us_kv\nA,400,50,100,0.03,0.9,12,300\n", "LINES.csv: row 2: us_kv: must be >= voltage_kv (400), got 300"},
-		{"negative reactor", head + ",reactor_mvar_receiving\nA,400,50,100,0.03,0.9,12,-5\n", "LINES.csv: row 2: reactor_mvar_receiving: must be >= 0, got -5"},
-		{"bad quote", head + "\n\"A,400,50,100,0.03,0.9,12\n", "LINES.csv: row 2:"},
+		{"third row", head + "\nA,400,50,100,0.03,0.93,12.4\nB,400,0,100,0.03,0.93,12.4\n", "LINES.csv: row 3: frequency_hz: must be > 0, got 0"},
+		{"source without X/R", head + ",source_mva\nA,400,50,100,0.03,0.93,12.4,5000\n", "LINES.csv: row 2: x_over_r: required when source_mva is given"},
+		{"us below nominal", head + ",us_kv\nA,400,50,100,0.03,0.93,12.4,300\n", "LINES.csv: row 2: us_kv: must be >= voltage_kv (400), got 300"},
+		{"negative reactor", head + ",reactor_mvar_receiving\nA,400,50,100,0.03,0.93,12.4,-5\n", "LINES.csv: row 2: reactor_mvar_receiving: must be >= 0, got -5"},
+		{"bad quote", head + "\n\"A,400,50,100,0.03,0.93,12.4\n", "LINES.csv: row 2:"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -169,7 +169,7 @@ func TestBatchLineColumns(t *testing.T) {
 		{"neither c nor b", "A,400,50,420,0.028,0.93,,,,,,,,,,,,,", "LINES.csv: row 2: c_nf_per_km: missing value (give c_nf_per_km or b_us_per_km)"},
 		{"zero sequence incomplete", "A,400,50,420,0.028,0.93,,12.4,,,0.25,3,,,,,,,", "LINES.csv: row 2: c0_nf_per_km: missing"},
 		{"negative x0", "A,400,50,420,0.028,0.93,,12.4,,,0.25,,-1,7.5,,,,,", "LINES.csv: row 2: x0_ohm_per_km: must be > 0, got -1"},
-		{"x0_over_x1 out of range", "A,400,50,420,0.028,0.93,,12.4,,,,,,,,,12000,12,5000", "LINES.csv: row 2: x0_over_x1: must be at most"},
+		{"x0_over_x1 out of range", "A,400,50,420,0.028,0.93,,12.4,,,,,,,,,12000,12,5000", "LINES.csv: row 2: x0_over_x1: must be between 0.01 and 100, got 5000"},
 	} {
 		_, err := parseBatch("LINES.csv", strings.NewReader(head+"\n"+tc.row+"\n"))
 		if err == nil || !strings.HasPrefix(err.Error(), tc.want) {

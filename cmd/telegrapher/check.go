@@ -24,7 +24,7 @@ impedance from its short-circuit level, an inductance from a reactance). Any pro
 reported as FILE: key.path: problem, with exit status 2.`,
 		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
 			return func(args []string) error {
-				st, err := studyArg("check", args)
+				st, err := studyArg("check", args, stderr)
 				if err != nil {
 					return err
 				}
@@ -49,6 +49,12 @@ func printCheck(w io.Writer, st *study.Study) {
 		len(st.Line), st.Line.Length()/1e3, yesNo(st.Zero != nil, "given", "not given"),
 		yesNo(st.Source.Ideal, "ideal", fmt.Sprintf("R = %.4g ohm, L = %.4g mH", st.Source.R, st.Source.L*1e3)),
 		len(st.Network.Shunts))
+	if len(st.Warnings) > 0 {
+		fmt.Fprintf(w, "\nwarnings (the study runs; check these values):\n")
+		for _, x := range st.Warnings {
+			fmt.Fprintf(w, "  %s\n", x)
+		}
+	}
 }
 
 func yesNo(b bool, yes, no string) string {

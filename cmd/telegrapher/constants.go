@@ -50,7 +50,7 @@ the whole cascade. --json writes the same as one JSON document.`,
 				if *plotPath != "" && !*sweep {
 					return usagef("telegrapher constants: --plot needs --sweep")
 				}
-				st, err := studyArg("constants", args, [2]string{"plot", *plotPath})
+				st, err := studyArg("constants", args, stderr, [2]string{"plot", *plotPath})
 				if err != nil {
 					return err
 				}

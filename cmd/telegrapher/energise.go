@@ -77,7 +77,7 @@ overvoltages (no surge arresters).`,
 				if *method != "" && !validMethod(*method) {
 					return usagef("telegrapher energise: --method %s: must be lattice, bergeron or laplace", *method)
 				}
-				st, err := studyArg("energise", args, [2]string{"plot", *plotPath}, [2]string{"diagram", *diagramPath})
+				st, err := studyArg("energise", args, stderr, [2]string{"plot", *plotPath}, [2]string{"diagram", *diagramPath})
 				if err != nil {
 					return err
 				}

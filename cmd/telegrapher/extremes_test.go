@@ -474,3 +474,287 @@ func TestExtremesLimits(t *testing.T) {
 		}
 	})
 }
+
+// boundsBase is the hostile battery's valid base study made light (fewer points,
+// shots and milliseconds), so that every command can run on it once per bound.
+func boundsBase(t *testing.T) string {
+	t.Helper()
+	src := hostileBase(t)
+	for _, r := range [][2]string{
+		{"points = 500", "points = 200"}, {"shots = 20", "shots = 4"},
+		{"[energise]\nwaveform = \"step\"\nduration_ms = 10", "[energise]\nwaveform = \"step\"\nduration_ms = 5"},
+		{"pole_sigma_ms = 1.0\nduration_ms = 10", "pole_sigma_ms = 1.0\nduration_ms = 5"},
+	} {
+		if !strings.Contains(src, r[0]) {
+			t.Fatalf("base study lacks %q", r[0])
+		}
+		src = strings.Replace(src, r[0], r[1], 1)
+	}
+	return src
+}
+
+// boundsBaseSource is the base's [source] table.
+const boundsBaseSource = "[source]\nshort_circuit_mva = 15000\nx_over_r = 12\nx0_over_x1 = 1.2\n"
+
+// boundsGeometry replaces the base's per-length constants by a tower geometry with
+// an earth wire (invented, in the usual proportions of a 400 kV tower).
+const boundsGeometry = `[conductors.main]
+outer_diameter_mm = 31.8
+core_diameter_mm = 10.6
+dc_ohm_per_km = 0.0585
+
+[conductors.earth]
+outer_diameter_mm = 16
+dc_ohm_per_km = 0.3
+
+[line]
+length_km = 320
+
+[line.geometry]
+earth_resistivity_ohm_m = 100
+transposed = true
+phases = [
+  { x_m = -11, height_m = 27, sag_m = 12, conductor = "main", bundle = 2, bundle_spacing_mm = 450 },
+  { x_m = 0, height_m = 27, sag_m = 12, conductor = "main", bundle = 2, bundle_spacing_mm = 450 },
+  { x_m = 11, height_m = 27, sag_m = 12, conductor = "main", bundle = 2, bundle_spacing_mm = 450 },
+]
+earth_wires = [{ x_m = 0, height_m = 36, sag_m = 9, conductor = "earth" }]
+`
+
+// boundsSetKey sets key = val in table of src (table "" is the top level), adding the
+// key or the table when absent.
+func boundsSetKey(src, table, key, val string) string {
+	lines := strings.Split(src, "\n")
+	start, end := 0, len(lines)
+	if table != "" {
+		start = -1
+		for i, l := range lines {
+			if l == "["+table+"]" || l == "[["+table+"]]" {
+				start = i + 1
+				break
+			}
+		}
+		if start < 0 {
+			return src + "\n[" + table + "]\n" + key + " = " + val + "\n"
+		}
+	}
+	for i := start; i < len(lines); i++ {
+		if strings.HasPrefix(lines[i], "[") {
+			end = i
+			break
+		}
+	}
+	for i := start; i < end; i++ {
+		if strings.HasPrefix(lines[i], key+" = ") {
+			lines[i] = key + " = " + val
+			return strings.Join(lines, "\n")
+		}
+	}
+	at := start
+	if table == "" {
+		at = 1 // after the title
+	}
+	lines = append(lines[:at], append([]string{key + " = " + val}, lines[at:]...)...)
+	return strings.Join(lines, "\n")
+}
+
+// boundsCase is one key of the study file with its documented lower and upper bound
+// (README, "The study file"; the values as the user writes them; "" skips one).
+// prep turns the base into a study where the key applies; heavyHi marks upper bounds
+// that only check and constants run at (a million scan points, ten seconds of
+// transient, a scan to 10 MHz: their cost, not their numerics, is what the bound is
+// about).
+type boundsCase struct {
+	table, key string
+	lo, hi     string
+	prep       func(string) string
+	heavyHi    bool
+}
+
+func boundsWithGeometry(src string) string {
+	i, j := strings.Index(src, "[line]"), strings.Index(src, "[source]")
+	return src[:i] + boundsGeometry + "\n" + src[j:]
+}
+
+func boundsWith(table, key, val string) func(string) string {
+	return func(s string) string { return boundsSetKey(s, table, key, val) }
+}
+
+func boundsChain(fs ...func(string) string) func(string) string {
+	return func(s string) string {
+		for _, f := range fs {
+			s = f(s)
+		}
+		return s
+	}
+}
+
+var boundsCases = []boundsCase{
+	{"", "frequency_hz", "1", "10000", nil, false},
+	{"", "voltage_kv", "1", "2000", boundsChain(boundsWith("", "us_kv", "2000")), false},
+	{"", "us_kv", "400", "2000", nil, false},
+	{"line", "length_km", "0.01", "10000", nil, false},
+	{"line", "r_ohm_per_km", "0.000001", "1000", nil, false},
+	{"line", "l_mh_per_km", "0.0001", "100", nil, false},
+	{"line", "x_ohm_per_km", "0.000031415926535897936", "31.41592653589793", func(s string) string {
+		return strings.Replace(s, "l_mh_per_km = 0.95\n", "", 1)
+	}, false},
+	{"line", "c_nf_per_km", "0.001", "10000", nil, false},
+	{"line", "b_us_per_km", "0.0003141592653589793", "3141.592653589793", func(s string) string {
+		return strings.Replace(s, "c_nf_per_km = 12.0\n", "", 1)
+	}, false},
+	{"line", "g_us_per_km", "0.000001", "10000", nil, false},
+	{"line", "r0_ohm_per_km", "0.000001", "1000", nil, false},
+	{"line", "l0_mh_per_km", "0.0001", "100", nil, false},
+	{"line", "c0_nf_per_km", "0.001", "10000", nil, false},
+	{"line", "g0_us_per_km", "0.000001", "10000", nil, false},
+	{"source", "short_circuit_mva", "1", "10000000", nil, false},
+	{"source", "x_over_r", "0.1", "10000", nil, false},
+	{"source", "x0_over_x1", "0.01", "100", nil, false},
+	{"source", "r_ohm", "0.000001", "1000000", func(s string) string {
+		return strings.Replace(s, "short_circuit_mva = 15000\nx_over_r = 12\n", "r_ohm = 0.9\nl_mh = 34\n", 1)
+	}, false},
+	{"source", "l_mh", "0.000001", "1000000", func(s string) string {
+		return strings.Replace(s, "short_circuit_mva = 15000\nx_over_r = 12\n", "r_ohm = 0.9\nl_mh = 34\n", 1)
+	}, false},
+	{"source", "x_ohm", "0.00000031415926535897936", "314159.2653589793", func(s string) string {
+		return strings.Replace(s, "short_circuit_mva = 15000\nx_over_r = 12\n", "r_ohm = 0.9\nx_ohm = 10.7\n", 1)
+	}, false},
+	{"shunt", "mvar", "0.001", "100000", nil, false},
+	{"shunt", "mvar", "-100000", "-0.001", nil, false},
+	{"shunt", "q_factor", "1", "100000", nil, false},
+	{"receiving", "load_mw", "0.001", "10000000", nil, false},
+	{"receiving", "load_mvar", "0.001", "10000000", nil, false},
+	{"receiving", "load_mvar", "-10000000", "-0.001", nil, false},
+	{"receiving", "short_circuit_mva", "1", "10000000", boundsWith("receiving", "x_over_r", "10"), false},
+	{"receiving", "x_over_r", "0.1", "10000", boundsWith("receiving", "short_circuit_mva", "8000"), false},
+	{"scan", "f_min_hz", "0.001", "2499", nil, false},
+	{"scan", "f_max_hz", "1.001", "10000000", nil, true},
+	{"scan", "points", "2", "1000000", nil, true},
+	{"scan", "watch_harmonics", "[1]", "[1000]", nil, false},
+	{"scan", "gain_limit", "0.001", "1000000", nil, false},
+	{"scan", "watch_band_pct", "0.1", "49", nil, false},
+	{"scan", "background_pct", "{ 5 = 0 }", "{ 5 = 100 }", nil, false},
+	{"scan", "planning_pct", "{ 5 = 0 }", "{ 5 = 100 }", nil, false},
+	{"scan", "short_circuit_mva_range", "[1, 2]", "[9999999, 10000000]", nil, false},
+	{"scan", "steps", "2", "200", boundsWith("scan", "short_circuit_mva_range", "[3000, 48000]"), false},
+	{"energise", "close_deg", "-360", "360", boundsWith("energise", "waveform", `"sine"`), false},
+	{"energise", "trapped_pu", "-2", "2", nil, false},
+	{"energise", "duration_ms", "0.001", "10000", nil, true},
+	{"energise", "time_step_us", "0.001", "", boundsWith("energise", "duration_ms", "0.05"), false},
+	{"energise", "time_step_us", "", "5000", boundsWith("energise", "duration_ms", "5"), false},
+	{"switching", "shots", "1", "100000", nil, true},
+	{"switching", "close_deg", "-360", "360", nil, false},
+	{"switching", "pole_sigma_ms", "0", "20", nil, false},
+	{"switching", "trapped_pu", "[-10, -10, -10]", "[10, 10, 10]", nil, false},
+	{"switching", "preinsertion_ohm", "1", "100000", nil, false},
+	{"switching", "preinsertion_ms", "0.01", "100", boundsWith("switching", "preinsertion_ohm", "400"), false},
+	{"switching", "siwl_kv", "1", "10000", nil, false},
+	{"switching", "ks", "1", "2", nil, false},
+	{"switching", "kcd", "1", "2", nil, false},
+	{"switching", "duration_ms", "0.01", "10000", nil, true},
+	{"switching", "time_step_us", "0.001", "", boundsWith("switching", "duration_ms", "0.05"), false},
+	{"switching", "time_step_us", "", "10000", boundsWith("switching", "duration_ms", "10"), false},
+	{"switching", "neutral_reactor_sending_ohm", "1", "1000000", nil, false},
+	{"switching", "neutral_reactor_receiving_ohm", "1", "1000000", nil, false},
+	{"switching", "dead_time_ms", "0.01", "10000", boundsWith("switching", "trapped_pu", "[-1, 1, -1]"), true},
+	{"switching", "controlled_sigma_ms", "0", "20", boundsWith("switching", "controlled_closing", "true"), false},
+	{"switching.arrester", "rated_kv", "1", "2000", func(s string) string {
+		return s + "\n[[switching.arrester]]\nat = \"receiving\"\nrated_kv = 336\n"
+	}, false},
+	{"switching.arrester", "vi_ka_kv", "[[0.000001, 1], [0.000002, 2]]", "[[999, 9999], [1000, 10000]]", func(s string) string {
+		return s + "\n[[switching.arrester]]\nat = \"receiving\"\nvi_ka_kv = [[0.001, 475], [1, 540]]\n"
+	}, false},
+	{"targets", "max_open_end_pu", "0.5", "10", nil, false},
+	{"targets", "max_gain_watched", "0.1", "10000", nil, false},
+	{"targets", "max_u2_pu", "1", "10", nil, false},
+	{"targets", "min_margin_pct", "-100", "1000", boundsWith("switching", "siwl_kv", "1050"), false},
+	{"levers", "reactor_mvar_sending", "[0, 0.001]", "[100000, 100000]", nil, false},
+	{"levers", "reactor_mvar_receiving", "[0.001, 0.001]", "[0, 100000]", nil, false},
+	{"levers", "preinsertion_ohm", "[0, 1]", "[100000, 100000]", nil, false},
+	{"levers", "controlled_sigma_ms", "0", "20", boundsWith("levers", "controlled_closing", "true"), false},
+	{"levers", "arresters_kv", "[1]", "[2000]", nil, false},
+	{"loading", "thermal_rating_a", "1", "1000000", nil, false},
+	{"conductors.main", "outer_diameter_mm", "1", "200", boundsChain(boundsWithGeometry, boundsWith("conductors.main", "core_diameter_mm", "0")), false},
+	{"conductors.main", "core_diameter_mm", "0", "28.62", boundsWithGeometry, false},
+	{"conductors.main", "dc_ohm_per_km", "0.001", "100", boundsWithGeometry, false},
+	{"line.geometry", "earth_resistivity_ohm_m", "0.1", "1000000", boundsWithGeometry, false},
+}
+
+// boundsCommands runs every command on a study: constants, scan, energise by each
+// method, loading, switching, and remedy (the base has targets).
+var boundsCommands = [][]string{
+	{"constants", "--json"}, {"scan", "--json"}, {"energise", "--json", "--method", "lattice"},
+	{"energise", "--json", "--method", "bergeron"}, {"energise", "--json", "--method", "laplace"},
+	{"loading", "--json"}, {"switching", "--json"}, {"remedy", "--json"},
+}
+
+// TestExtremesEveryKeyAtItsBounds: every numeric key of the study file at its lower
+// and at its upper bound, alone, loads (or is refused with exit 2 naming a key, when
+// the bound meets another rule such as the speed of light) and every command then
+// succeeds or refuses with exit 2 naming a key, never exit 1, with no NaN or Inf in
+// its JSON (issue 15, item 17). Just beyond each bound the key is refused with exit 2
+// naming it.
+func TestExtremesEveryKeyAtItsBounds(t *testing.T) {
+	t.Parallel()
+	base := boundsBase(t)
+	for _, c := range boundsCases {
+		for i, val := range []string{c.lo, c.hi} {
+			if val == "" {
+				continue
+			}
+			name := fmt.Sprintf("%s.%s=%s", c.table, c.key, val)
+			t.Run(name, func(t *testing.T) {
+				t.Parallel()
+				src := base
+				if c.prep != nil {
+					src = c.prep(src)
+				}
+				src = boundsSetKey(src, c.table, c.key, val)
+				dir := t.TempDir()
+				path := filepath.Join(dir, "bound.toml")
+				if err := os.WriteFile(path, []byte(src), 0o644); err != nil {
+					t.Fatal(err)
+				}
+				cmds := boundsCommands
+				if c.heavyHi && i == 1 {
+					cmds = [][]string{{"check"}, {"constants", "--json"}}
+				}
+				// The lattice diagram needs a resistive source and no line-connected
+				// shunt: it runs on the same study with the base's source left out (an
+				// ideal source) and its reactor on the bus (not in the energisation).
+				latticeSrc := strings.Replace(strings.Replace(src, boundsBaseSource, "", 1), `connection = "line"`, `connection = "bus"`, 1)
+				ideal := filepath.Join(dir, "bound-ideal.toml")
+				if err := os.WriteFile(ideal, []byte(latticeSrc), 0o644); err != nil {
+					t.Fatal(err)
+				}
+				for _, cmd := range cmds {
+					args := append(append([]string{}, cmd...), path)
+					if extremeHas(cmd, "lattice") {
+						args[len(args)-1] = ideal
+					}
+					var stdout, stderr bytes.Buffer
+					status := run(args, &stdout, &stderr)
+					switch status {
+					case 0:
+						if extremeHas(args, "--json") {
+							extremeCheckJSON(t, args, stdout.Bytes())
+						}
+					case 2:
+						if !regexp.MustCompile(`: [a-z_0-9]+(\.[a-z_0-9]+)*(\[\d+\])?(\.[a-z_]+)*: `).MatchString(stderr.String()) {
+							t.Errorf("%v: exit 2 without a key path: %s", cmd, stderr.String())
+						}
+						// A bound is inside the key's range: the key itself may not be refused
+						// there (another rule, such as the speed of light, may refuse it).
+						if strings.Contains(stderr.String(), c.key+": must") {
+							t.Errorf("%v: the bound %s itself is refused: %s", cmd, val, stderr.String())
+						}
+						t.Logf("%v refused: %s", cmd, strings.TrimSpace(stderr.String()))
+					default:
+						t.Errorf("%v: exit status %d: %s", cmd, status, stderr.String())
+					}
+				}
+			})
+		}
+	}
+}

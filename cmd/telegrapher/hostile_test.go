@@ -274,3 +274,40 @@ func TestHostileMethodRefusal(t *testing.T) {
 		}
 	}
 }
+
+// TestHostileEveryProblemAtOnce: a study with several independent mistakes is refused
+// by every command with exit status 2 and one message block on standard error, one
+// line FILE: key.path: problem per mistake (issue 15, item 11), nothing on stdout.
+func TestHostileEveryProblemAtOnce(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	study := filepath.Join(dir, "three-mistakes.toml")
+	src := strings.Replace(hostileBase(t), `method = "laplace"`, `method = "bergron"`, 1)
+	src = strings.Replace(src, "f_min_hz = 1\n", "f_min_hz = -1\n", 1)
+	src = strings.Replace(src, "[line]\n", "[line]\nlenght = 3\n", 1)
+	if err := os.WriteFile(study, []byte(src), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	want := []string{study + ": line.lenght: ", study + ": scan.f_min_hz: ", study + ": energise.method: "}
+	for _, inv := range hostileInvocations {
+		t.Run(inv.name, func(t *testing.T) {
+			t.Parallel()
+			out := t.TempDir()
+			args := inv.args(study, out)
+			var stdout, stderr bytes.Buffer
+			status := run(args, &stdout, &stderr)
+			lines := strings.Split(strings.TrimRight(stderr.String(), "\n"), "\n")
+			if status != 2 || stdout.Len() != 0 || len(lines) != len(want) {
+				t.Fatalf("%v: status %d, stdout %d bytes, stderr:\n%s\nwant 2, nothing, %d lines", args, status, stdout.Len(), stderr.String(), len(want))
+			}
+			for i, w := range want {
+				if !strings.HasPrefix(lines[i], w) {
+					t.Errorf("line %d %q, want it to start with %q", i, lines[i], w)
+				}
+			}
+			if left := hostileFilesUnder(t, out); len(left) != 0 {
+				t.Errorf("%v: files written: %v", args, left)
+			}
+		})
+	}
+}

@@ -67,7 +67,7 @@ profiles for a few loadings, reactive power against loading, and the loadability
 				if !(*target > 0) || *target > 2 || math.IsNaN(*target) {
 					return usagef("telegrapher loading: --target-pu: must be > 0 and <= 2, got %g", *target)
 				}
-				st, err := studyArg("loading", args, [2]string{"plot", *plotPath})
+				st, err := studyArg("loading", args, stderr, [2]string{"plot", *plotPath})
 				if err != nil {
 					return err
 				}

@@ -206,8 +206,9 @@ const Caution = "Caution: telegrapher screens and plans; it does not certify. It
 
 // studyArg is the common start of a command that takes one STUDY: it checks that
 // args holds exactly one file, that each file flag given (name, path) ends in .png or
-// .svg, and loads the study. Every failure is an input error (exit 2).
-func studyArg(cmd string, args []string, plotFlags ...[2]string) (*study.Study, error) {
+// .svg, and loads the study, writing its warnings to stderr. Every failure is an input
+// error (exit 2).
+func studyArg(cmd string, args []string, stderr io.Writer, plotFlags ...[2]string) (*study.Study, error) {
 	if len(args) != 1 {
 		usage := "STUDY"
 		if c, ok := commands[cmd]; ok {
@@ -222,5 +223,12 @@ func studyArg(cmd string, args []string, plotFlags ...[2]string) (*study.Study, 
 			}
 		}
 	}
-	return study.Load(args[0]) // a study input error: exit 2 (errors.go)
+	st, err := study.Load(args[0]) // a study input error: exit 2 (errors.go)
+	if err != nil {
+		return nil, err
+	}
+	for _, w := range st.Warnings {
+		fmt.Fprintf(stderr, "%s: warning: %s\n", st.File, w)
+	}
+	return st, nil
 }

@@ -69,7 +69,7 @@ harmonics marked; u2 against the pre-insertion resistor).`,
 			asJSON := fs.Bool("json", false, "write the results as one JSON document")
 			plotPath := fs.String("plot", "", "write the trade-off plots to `F` (.png or .svg)")
 			return func(args []string) error {
-				st, err := studyArg("remedy", args, [2]string{"plot", *plotPath})
+				st, err := studyArg("remedy", args, stderr, [2]string{"plot", *plotPath})
 				if err != nil {
 					return err
 				}

@@ -108,6 +108,9 @@ func inputsSection(st *study.Study) report.Section {
 	if len(t.Rows) > 0 {
 		sec.Tables = []report.TableView{{Caption: "Settings as understood (SI conversions done once, at load)", Table: t}}
 	}
+	for _, w := range st.Warnings {
+		sec.Notes = append(sec.Notes, "Warning: "+w)
+	}
 	return sec
 }
 
@@ -332,7 +335,7 @@ into the same folder once no running telegrapher holds them (see the README).`,
 				if *out == "" {
 					return usagef("telegrapher report: --out DIR is required\nusage: telegrapher report STUDY --out DIR [--force]")
 				}
-				st, err := studyArg("report", args)
+				st, err := studyArg("report", args, stderr)
 				if err != nil {
 					return err
 				}

@@ -64,7 +64,7 @@ frequency. An exactly lossless network has unbounded resonances: they are report
 			plotPath := fs.String("plot", "", "write the gain plot (PNG or SVG by extension)")
 			mapPath := fs.String("map", "", "write the source-strength heat map (PNG or SVG)")
 			return func(args []string) error {
-				st, err := studyArg("scan", args, [2]string{"plot", *plotPath}, [2]string{"map", *mapPath})
+				st, err := studyArg("scan", args, stderr, [2]string{"plot", *plotPath}, [2]string{"map", *mapPath})
 				if err != nil {
 					return err
 				}

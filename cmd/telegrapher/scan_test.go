@@ -55,7 +55,7 @@ voltage_kv = 400
 length_km = 300
 r_ohm_per_km = 0
 l_mh_per_km = 1.0
-c_nf_per_km = 11.0
+c_nf_per_km = 12.0
 `
 
 func writeStudy(t *testing.T, text string) string {
@@ -157,7 +157,7 @@ func TestScanLosslessUnbounded(t *testing.T) {
 		t.Fatal(err)
 	}
 	// Quarter wave of a lossless line: f = 1/(4 l sqrt(LC)); telegrapher's equations.
-	fq := 1 / (4 * 300e3 * math.Sqrt(1e-6*11e-12))
+	fq := 1 / (4 * 300e3 * math.Sqrt(1e-6*12e-12))
 	if len(doc.Peaks) == 0 || math.Abs(doc.Peaks[0].FHz-fq) > 0.002*fq || doc.Peaks[0].Gain != nil || !doc.Peaks[0].Unbounded {
 		t.Fatalf("peaks %+v, want an unbounded first peak at %g Hz", doc.Peaks, fq)
 	}

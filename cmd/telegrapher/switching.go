@@ -78,7 +78,7 @@ writes the distribution on a normal-probability scale and the worst shot's wavef
 			asJSON := fs.Bool("json", false, "write the results as one JSON document")
 			plotPath := fs.String("plot", "", "write the distribution and the worst shot to `F` (.png or .svg)")
 			return func(args []string) error {
-				st, err := studyArg("switching", args, [2]string{"plot", *plotPath})
+				st, err := studyArg("switching", args, stderr, [2]string{"plot", *plotPath})
 				if err != nil {
 					return err
 				}

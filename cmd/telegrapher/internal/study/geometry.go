@@ -28,10 +28,14 @@ var (
 
 // Plausibility ranges (values outside are typing errors rather than towers).
 const (
-	maxDiameterMM    = 200.0  // conductor outer diameter
+	minDiameterMM    = 1.0    // conductor outer diameter
+	maxDiameterMM    = 200.0  //
+	maxCoreRatio     = 0.9    // core over outer diameter of a tube: a wall of at least 5 %
+	minDCOhmPerKm    = 1e-3   // d.c. resistance
 	maxDCOhmPerKm    = 100.0  // d.c. resistance
 	maxResistivity   = 1e6    // earth, ohm·m
-	maxHeightM       = 300.0  // conductor height at the tower
+	minHeightM       = 1.0    // conductor height at the tower
+	maxHeightM       = 300.0  //
 	maxAbsXM         = 200.0  // horizontal position
 	maxBundle        = 12     // subconductors
 	maxBundleSpaceMM = 2000.0 // subconductor spacing
@@ -63,9 +67,6 @@ func init() {
 	// [line.geometry] and [line.sections.geometry]: the section's positive- and
 	// zero-sequence constants from the tower.
 	RegisterSection(SectionHook{Key: "geometry", Build: func(ld *Loader, section, sub *Table) (pos, zero propagation.Constants, err error) {
-		if ld.Failed() {
-			return nil, nil, nil
-		}
 		if !sub.Present() {
 			return nil, nil, geoErrorf(ld.File, sub.Path(), "must be a table [%s]", sub.Path())
 		}
@@ -102,6 +103,9 @@ func ParseConductors(file string, tbl map[string]any) (map[string]propagation.Co
 		if !(outer > 0) || outer > maxDiameterMM {
 			return nil, nil, geoErrorf(file, path+".outer_diameter_mm", "must be > 0 and at most %g, got %g", maxDiameterMM, outer)
 		}
+		if outer < minDiameterMM {
+			return nil, nil, geoErrorf(file, path+".outer_diameter_mm", "must be between %g and %g, got %g", minDiameterMM, maxDiameterMM, outer)
+		}
 		core, err := geoNumber(file, path, t, "core_diameter_mm", false, 0)
 		if err != nil {
 			return nil, nil, err
@@ -109,12 +113,18 @@ func ParseConductors(file string, tbl map[string]any) (map[string]propagation.Co
 		if !(core >= 0) || core >= outer {
 			return nil, nil, geoErrorf(file, path+".core_diameter_mm", "must be >= 0 and less than outer_diameter_mm (%g), got %g", outer, core)
 		}
+		if core > maxCoreRatio*outer {
+			return nil, nil, geoErrorf(file, path+".core_diameter_mm", "must be at most %g x outer_diameter_mm (%g), got %g", maxCoreRatio, maxCoreRatio*outer, core)
+		}
 		rdc, err := geoNumber(file, path, t, "dc_ohm_per_km", true, 0)
 		if err != nil {
 			return nil, nil, err
 		}
 		if !(rdc > 0) || rdc > maxDCOhmPerKm {
 			return nil, nil, geoErrorf(file, path+".dc_ohm_per_km", "must be > 0 and at most %g, got %g", maxDCOhmPerKm, rdc)
+		}
+		if rdc < minDCOhmPerKm {
+			return nil, nil, geoErrorf(file, path+".dc_ohm_per_km", "must be between %g and %g, got %g", minDCOhmPerKm, maxDCOhmPerKm, rdc)
 		}
 		c, err := propagation.NewConductor(outer/1000, core/1000, rdc/1000)
 		if err != nil {
@@ -251,6 +261,9 @@ func geoWires(file, path string, raw any, conductors map[string]propagation.Cond
 		}
 		if !(h > 0) || h > maxHeightM {
 			return nil, nil, geoErrorf(file, p+".height_m", "must be > 0 and at most %g m, got %g", maxHeightM, h)
+		}
+		if h < minHeightM {
+			return nil, nil, geoErrorf(file, p+".height_m", "must be between %g and %g m, got %g", minHeightM, maxHeightM, h)
 		}
 		sag, err := geoNumber(file, p, t, "sag_m", false, 0)
 		if err != nil {

@@ -192,7 +192,11 @@ func Parse(name string, data []byte) (*Study, error) {
 	return ld.Study, nil
 }
 
-// load runs the stages in order and returns the first error.
+// load runs the stages in order and returns every problem found. The system keys
+// feed every later table, so a problem there stops the load; a problem in the
+// conductors stops the line, and a problem in the line, source, shunts or receiving end
+// stops the models and the tables read after them (AfterModels parsers may rely on the
+// models), while [scan] and [energise] are checked in any case.
 func (ld *Loader) load() (err error) {
 	root := ld.root
 	known := append([]string{}, rootKeys...)
@@ -200,24 +204,34 @@ func (ld *Loader) load() (err error) {
 		known = append(known, h.Name)
 	}
 	root.Known(known...)
+	top := ld.mark() // an unknown top-level key breaks no model
+	m := top
 	ld.system(root)
+	if ld.failedSince(m) {
+		return ld.Err()
+	}
+	m = ld.mark()
 	ld.runHooks(BeforeLine)
-	ld.line(root.Sub("line"))
+	if !ld.failedSince(m) {
+		ld.line(root.Sub("line"))
+	}
 	ld.source(root.Sub("source"))
 	ld.shunts(root)
 	ld.receiving(root.Sub("receiving"))
-	ld.build()
+	modelsOK := !ld.failedSince(top)
+	if modelsOK {
+		ld.build()
+	}
 	ld.scan(root.Sub("scan"))
 	ld.energise(root.Sub("energise"))
-	ld.runHooks(AfterModels)
+	if modelsOK {
+		ld.runHooks(AfterModels)
+	}
 	return ld.Err()
 }
 
 func (ld *Loader) runHooks(stage Stage) {
 	for _, h := range tableHooks {
-		if ld.Failed() {
-			return
-		}
 		if h.Stage != stage {
 			continue
 		}
@@ -228,20 +242,38 @@ func (ld *Loader) runHooks(stage Stage) {
 // required returns the number at key, recording "missing" with an example when absent.
 func required(t *Table, key, example string) float64 {
 	v, ok := t.Float(key)
-	if !ok && !t.ld.Failed() {
+	if !ok && !t.Has(key) {
 		t.Errorf(key, "missing: give it, e.g. %s", example)
 	}
 	return v
 }
 
-// Upper bounds that catch typing errors (values beyond are not power lines).
+// Bounds of the core keys: beyond them a value is a typing error rather than a power
+// line, or too small for the numerics to mean anything (a subnormal resistance, a
+// frequency of 1e-320 Hz). README's key tables list them.
 const (
-	maxFrequencyHz = 1e4  // system frequency
-	maxVoltageKV   = 2000 // line-to-line
-	maxLengthKm    = 1e4  // a line or section
-	maxPerKm       = 1e6  // any per-km constant in its unit
+	minFrequencyHz = 1    // system frequency
+	maxFrequencyHz = 1e4  //
+	minVoltageKV   = 1    // line-to-line
+	maxVoltageKV   = 2000 //
+	minLengthKm    = 0.01 // a line or section: 10 m
+	maxLengthKm    = 1e4  //
 	maxMVA         = 1e7  // powers
 	maxScanHz      = 1e7  // scan frequencies
+	minScanHz      = 1e-3 //
+)
+
+// Bounds of the per-length constants, in the units of their keys; r and g may also be
+// 0 (lossless). The same hold for the zero sequence and for every section; x and b are
+// held to the l and c bounds at frequency_hz. The lower l and c bounds are low enough
+// that a unit slip (uF/km in the nF/km key, H/km in the mH/km key) meets the speed
+// of light first, whose message says what is wrong: at either lower bound no
+// partner within the other's bounds gives a line slower than light.
+var (
+	rBounds = [2]float64{1e-6, 1000} // ohm/km
+	lBounds = [2]float64{1e-4, 100}  // mH/km
+	cBounds = [2]float64{1e-3, 1e4}  // nF/km
+	gBounds = [2]float64{1e-6, 1e4}  // uS/km (far above any line: tests force overflow with it)
 )
 
 func (ld *Loader) system(root *Table) {
@@ -251,24 +283,23 @@ func (ld *Loader) system(root *Table) {
 		ld.Note("title", fmt.Sprintf("%q", s), "given")
 	}
 	f := required(root, "frequency_hz", "frequency_hz = 50")
-	if ld.Failed() {
-		return
-	}
 	root.Positive("frequency_hz", f)
 	root.AtMost("frequency_hz", f, maxFrequencyHz)
+	root.Between("frequency_hz", f, minFrequencyHz, maxFrequencyHz)
+	mv := ld.mark()
 	v := required(root, "voltage_kv", "voltage_kv = 400")
-	if ld.Failed() {
-		return
-	}
 	root.Positive("voltage_kv", v)
 	root.AtMost("voltage_kv", v, maxVoltageKV)
+	root.Between("voltage_kv", v, minVoltageKV, maxVoltageKV)
+	vOK := !ld.failedSince(mv)
 	st.Frequency, st.Voltage = f, v*1e3
 	ld.Note("frequency_hz", fmt.Sprintf("%g Hz", f), "given")
 	ld.Note("voltage_kv", fmt.Sprintf("%g kV line-to-line rms", v), "given")
 	if us, ok := root.Float("us_kv"); ok {
+		mu := ld.mark()
 		root.Positive("us_kv", us)
 		root.AtMost("us_kv", us, maxVoltageKV)
-		if !ld.Failed() && us < v {
+		if vOK && !ld.failedSince(mu) && us < v {
 			root.Errorf("us_kv", "the highest voltage for equipment must be >= voltage_kv (%g), got %g", v, us)
 		}
 		st.Us = us * 1e3
@@ -283,23 +314,24 @@ func (ld *Loader) system(root *Table) {
 func (ld *Loader) omega() float64 { return 2 * math.Pi * ld.Study.Frequency }
 
 // line reads [line]: either one section (its keys in [line]) or [[line.sections]].
+// Each section is checked on its own; the line is built only when all are good.
 func (ld *Loader) line(t *Table) {
-	if ld.Failed() {
-		return
-	}
 	if !t.Present() {
-		ld.Errorf("line", "missing: give the line, e.g. [line] with length_km, r_ohm_per_km, l_mh_per_km and c_nf_per_km")
+		if !ld.keys["line"] {
+			ld.Errorf("line", "missing: give the line, e.g. [line] with length_km, r_ohm_per_km, l_mh_per_km and c_nf_per_km")
+		}
 		return
 	}
+	m := ld.mark()
 	if t.Has("sections") {
 		for _, k := range orderedKeys(t.Map()) {
 			if k != "sections" {
 				t.Errorf(k, "with [[line.sections]] every key goes into a section; [line] holds only the sections")
-				return
+				return // one mistake: the first such key stands for all
 			}
 		}
 		secs := t.Subs("sections")
-		if ld.Failed() {
+		if ld.failedSince(m) {
 			return
 		}
 		if len(secs) == 0 {
@@ -311,26 +343,32 @@ func (ld *Loader) line(t *Table) {
 			return
 		}
 		var pos, zero propagation.Cascade
+		ref := -1 // the first good section, which says whether zero-sequence data is given
 		for i, s := range secs {
 			p, z := ld.section(s, true)
-			if ld.Failed() {
-				return
+			if p == nil {
+				continue
 			}
-			if i > 0 && (z != nil) != (len(zero) > 0) {
-				s.Errorf("r0_ohm_per_km", "zero-sequence constants must be given for every section or for none (sections[0] %s them, this one %s them)", haveWord(len(zero) > 0), haveWord(z != nil))
-				return
+			if ref < 0 {
+				ref = i
+			} else if (z != nil) != (len(zero) > 0) {
+				s.Errorf("r0_ohm_per_km", "zero-sequence constants must be given for every section or for none (sections[%d] %s them, this one %s them)", ref, haveWord(len(zero) > 0), haveWord(z != nil))
+				continue
 			}
 			pos = append(pos, *p)
 			if z != nil {
 				zero = append(zero, *z)
 			}
 		}
+		if ld.failedSince(m) {
+			return
+		}
 		ld.Study.Line, ld.Study.Zero = pos, zero
 		ld.Note("line.length_km", fmt.Sprintf("%g km in %d sections", pos.Length()/1e3, len(pos)), "sum of the sections")
 		return
 	}
 	p, z := ld.section(t, false)
-	if ld.Failed() {
+	if p == nil {
 		return
 	}
 	ld.Study.Line = propagation.Cascade{*p}
@@ -347,8 +385,10 @@ func haveWord(b bool) string {
 }
 
 // section reads one section's keys (the single [line] or one [[line.sections]] entry)
-// and returns its positive-sequence line and, when given, its zero-sequence line.
+// and returns its positive-sequence line and, when given, its zero-sequence line; nil
+// when the section has a problem (recorded).
 func (ld *Loader) section(t *Table, named bool) (pos, zero *propagation.Line) {
+	m := ld.mark()
 	known := append([]string{}, sectionKeys...)
 	if !named {
 		known = known[1:] // no name in a single-section [line]
@@ -363,11 +403,9 @@ func (ld *Loader) section(t *Table, named bool) (pos, zero *propagation.Line) {
 		name, _ = t.String("name")
 	}
 	length := required(t, "length_km", "length_km = 320")
-	if ld.Failed() {
-		return nil, nil
-	}
 	t.Positive("length_km", length)
 	t.AtMost("length_km", length, maxLengthKm)
+	t.Between("length_km", length, minLengthKm, maxLengthKm)
 	ld.Note(t.KeyPath("length_km"), fmt.Sprintf("%g km", length), "given")
 	if named && name != "" {
 		ld.Note(t.KeyPath("name"), fmt.Sprintf("%q", name), "given")
@@ -384,13 +422,14 @@ func (ld *Loader) section(t *Table, named bool) (pos, zero *propagation.Line) {
 		}
 		p, z, err := h.Build(ld, t, t.Sub(h.Key))
 		ld.Fail(t.KeyPath(h.Key), err)
-		if ld.Failed() {
+		if ld.failedSince(m) {
 			return nil, nil
 		}
 		if p == nil {
 			t.Errorf(h.Key, "gives no line constants")
 			return nil, nil
 		}
+		ld.plausible(t, name, p, z, true)
 		pos = &propagation.Line{Name: name, Length: length * 1e3, Constants: p}
 		if z != nil {
 			zero = &propagation.Line{Name: name, Length: length * 1e3, Constants: z}
@@ -398,19 +437,27 @@ func (ld *Loader) section(t *Table, named bool) (pos, zero *propagation.Line) {
 		return pos, zero
 	}
 	rl := ld.rlgc(t, "", "positive-sequence")
-	if ld.Failed() {
-		return nil, nil
-	}
-	pos = &propagation.Line{Name: name, Length: length * 1e3, Constants: rl}
 	anyZero := false
 	for _, k := range zeroKeys {
 		anyZero = anyZero || t.Has(k)
 	}
+	var z propagation.RLGC
 	if anyZero {
-		z := ld.rlgc(t, "0", "zero-sequence")
-		if ld.Failed() {
-			return nil, nil
-		}
+		z = ld.rlgc(t, "0", "zero-sequence")
+	}
+	if ld.failedSince(m) {
+		return nil, nil
+	}
+	if anyZero {
+		ld.plausible(t, name, rl, z, false)
+	} else {
+		ld.plausible(t, name, rl, nil, false)
+	}
+	if ld.failedSince(m) {
+		return nil, nil
+	}
+	pos = &propagation.Line{Name: name, Length: length * 1e3, Constants: rl}
+	if anyZero {
 		zero = &propagation.Line{Name: name, Length: length * 1e3, Constants: z}
 	}
 	return pos, zero
@@ -429,71 +476,76 @@ func (ld *Loader) rlgc(t *Table, seq, what string) propagation.RLGC {
 			t.Errorf(key, "missing: give the %s series resistance, e.g. %s", what, ex)
 		}
 	}
-	r, ok := t.Float(rk)
-	if !ok {
-		if !ld.Failed() {
-			missing(rk, rk+" = 0.03")
-		}
-		return p
+	if r, ok := t.Float(rk); ok {
+		t.NonNegative(rk, r)
+		t.ZeroOr(rk, r, rBounds[0], rBounds[1])
+		p.R = r / 1e3
+		ld.Note(t.KeyPath(rk), fmt.Sprintf("%g ohm/km", r), "given")
+	} else if !t.Has(rk) {
+		missing(rk, rk+" = 0.03")
 	}
-	t.NonNegative(rk, r)
-	t.AtMost(rk, r, maxPerKm)
-	p.R = r / 1e3
-	ld.Note(t.KeyPath(rk), fmt.Sprintf("%g ohm/km", r), "given")
 
 	switch t.Exclusive(lk, xk) {
 	case lk:
 		l, _ := t.Float(lk)
 		t.Positive(lk, l)
-		t.AtMost(lk, l, maxPerKm)
+		t.Between(lk, l, lBounds[0], lBounds[1])
 		p.L = l * 1e-6
 		ld.Note(t.KeyPath(lk), fmt.Sprintf("%g mH/km", l), "given")
 	case xk:
 		x, _ := t.Float(xk)
 		t.Positive(xk, x)
-		t.AtMost(xk, x, maxPerKm)
+		ld.throughOmega(t, xk, x, w*1e-3, lBounds, "mH/km", "ohm/km")
 		p.L = x / w / 1e3
 		ld.Note(t.KeyPath(lk), fmt.Sprintf("%.6g mH/km", p.L*1e6), fmt.Sprintf("from %s = %g ohm/km at %g Hz", xk, x, ld.Study.Frequency))
 	default:
-		if !ld.Failed() {
+		if !t.Has(lk) && !t.Has(xk) { // else: both given, reported by Exclusive
 			if seq == "0" {
 				missing(lk, lk+" = 3.0")
 			} else {
 				t.Errorf(lk, "missing: give the %s inductance %s or reactance %s, e.g. %s = 0.95", what, lk, xk, lk)
 			}
 		}
-		return p
 	}
 	switch t.Exclusive(ck, bk) {
 	case ck:
 		c, _ := t.Float(ck)
 		t.Positive(ck, c)
-		t.AtMost(ck, c, maxPerKm)
+		t.Between(ck, c, cBounds[0], cBounds[1])
 		p.C = c * 1e-12
 		ld.Note(t.KeyPath(ck), fmt.Sprintf("%g nF/km", c), "given")
 	case bk:
 		b, _ := t.Float(bk)
 		t.Positive(bk, b)
-		t.AtMost(bk, b, maxPerKm)
+		ld.throughOmega(t, bk, b, w*1e-3, cBounds, "nF/km", "uS/km")
 		p.C = b * 1e-6 / w / 1e3
 		ld.Note(t.KeyPath(ck), fmt.Sprintf("%.6g nF/km", p.C*1e12), fmt.Sprintf("from %s = %g uS/km at %g Hz", bk, b, ld.Study.Frequency))
 	default:
-		if !ld.Failed() {
+		if !t.Has(ck) && !t.Has(bk) {
 			if seq == "0" {
 				missing(ck, ck+" = 7.5")
 			} else {
 				t.Errorf(ck, "missing: give the %s capacitance %s or susceptance %s, e.g. %s = 12", what, ck, bk, ck)
 			}
 		}
-		return p
 	}
 	if g, ok := t.Float(gk); ok {
 		t.NonNegative(gk, g)
-		t.AtMost(gk, g, maxPerKm)
+		t.ZeroOr(gk, g, gBounds[0], gBounds[1])
 		p.G = g * 1e-9
 		ld.Note(t.KeyPath(gk), fmt.Sprintf("%g uS/km", g), "given")
 	} else {
 		ld.Note(t.KeyPath(gk), "0 uS/km", "default")
 	}
 	return p
+}
+
+// throughOmega checks a reactance or susceptance v given at frequency_hz against the
+// bounds of the inductance or capacitance it stands for (v = k·x with k = ω in the
+// units at hand), and names the key as given with the bounds in its own unit.
+func (ld *Loader) throughOmega(t *Table, key string, v, k float64, b [2]float64, unit, vunit string) {
+	if x := v / k; !(x >= b[0] && x <= b[1]) {
+		t.Errorf(key, "must be between %.6g and %.6g %s (%s to %s %s at %g Hz), got %s",
+			b[0]*k, b[1]*k, vunit, num(b[0]), num(b[1]), unit, ld.Study.Frequency, num(v))
+	}
 }

@@ -2,6 +2,7 @@ package study
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -207,9 +208,9 @@ var ruleCases = []struct {
 	{"energise step negative", base + "[energise]\ntime_step_us = -1\n", "energise.time_step_us", "must be >= 0"},
 	{"energise samples cap", base + "[energise]\nduration_ms = 10000\ntime_step_us = 0.0001\n", "energise.time_step_us", "samples"},
 	{"energise trapped", base + "[energise]\ntrapped_pu = 5\n", "energise.trapped_pu", "between"},
-	{"sections with line keys", "frequency_hz = 50\nvoltage_kv = 400\n[line]\nlength_km = 3\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 10\n", "line.length_km", "sections"},
-	{"section bad", "frequency_hz = 50\nvoltage_kv = 400\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 10\n[[line.sections]]\nlength_km = -1\n", "line.sections[1].length_km", "must be > 0"},
-	{"section zero partial", "frequency_hz = 50\nvoltage_kv = 400\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 10\nr0_ohm_per_km = 0.3\nl0_mh_per_km = 3\nc0_nf_per_km = 6\n[[line.sections]]\nlength_km = 2\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 10\n", "line.sections[1].r0_ohm_per_km", "every section"},
+	{"sections with line keys", "frequency_hz = 50\nvoltage_kv = 400\n[line]\nlength_km = 3\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\n", "line.length_km", "sections"},
+	{"section bad", "frequency_hz = 50\nvoltage_kv = 400\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\n[[line.sections]]\nlength_km = -1\n", "line.sections[1].length_km", "must be > 0"},
+	{"section zero partial", "frequency_hz = 50\nvoltage_kv = 400\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\nr0_ohm_per_km = 0.3\nl0_mh_per_km = 3\nc0_nf_per_km = 6\n[[line.sections]]\nlength_km = 2\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\n", "line.sections[1].r0_ohm_per_km", "every section"},
 	{"frequency cap", replace("frequency_hz", "frequency_hz = 1e6"), "frequency_hz", "at most"},
 	{"voltage cap", replace("voltage_kv", "voltage_kv = 1e5"), "voltage_kv", "at most"},
 	{"scan f_max cap", base + "[scan]\nf_max_hz = 1e9\n", "scan.f_max_hz", "at most"},
@@ -373,7 +374,7 @@ func BenchmarkParseSections1000(b *testing.B) {
 	var sb strings.Builder
 	sb.WriteString("frequency_hz = 50\nvoltage_kv = 400\n")
 	for i := 0; i < MaxSections; i++ {
-		sb.WriteString("[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 10\nr0_ohm_per_km = 0.3\nl0_mh_per_km = 3\nc0_nf_per_km = 6\n")
+		sb.WriteString("[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\nr0_ohm_per_km = 0.3\nl0_mh_per_km = 3\nc0_nf_per_km = 6\n")
 	}
 	data := []byte(sb.String())
 	b.ResetTimer()
@@ -381,5 +382,87 @@ func BenchmarkParseSections1000(b *testing.B) {
 		if _, err := Parse("b.toml", data); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+// TestEveryProblemAtOnce: a file with several independent mistakes gets all of them
+// in one *Error, one line each, in file order of the stages; a mistake that makes
+// later checks meaningless gives one message, not a cascade (issue 15, item 11).
+func TestEveryProblemAtOnce(t *testing.T) {
+	t.Parallel()
+	manySections := "frequency_hz = 50\nvoltage_kv = 400\n"
+	for range 30 {
+		manySections += "[[line.sections]]\nlength_km = -1\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\n"
+	}
+	for _, c := range []struct {
+		name, src string
+		keys      []string // the key path of each problem, in order
+		omitted   int
+	}{
+		{"independent tables", `frequency_hz = 50
+voltage_kv = 400
+[line]
+length_km = 320
+r_ohm_per_km = -0.025
+l_mh_per_km = 0.95
+[source]
+short_circuit_mva = 15000
+x_over_r = 0
+[[shunt]]
+at = "receiving"
+connection = "line"
+mvar = 0
+[scan]
+points = 1
+[energise]
+method = "bergron"
+`, []string{"line.r_ohm_per_km", "line.c_nf_per_km", "source.x_over_r", "shunt[0].mvar", "scan.points", "energise.method"}, 0},
+		{"frequency and voltage", "frequency_hz = -50\nvoltage_kv = 0\n[line]\nlength_km = -1\n", []string{"frequency_hz", "voltage_kv"}, 0},
+		{"several unknown keys", replace("length_km", "lenght_km = 320\nr_ohm_per_kmm = 1") + "[scan]\npoint = 3\n",
+			[]string{"line.lenght_km", "line.r_ohm_per_kmm", "scan.point"}, 0},
+		{"a typo is not also a missing key", "frequncy_hz = 50\n" + replace("frequency_hz", ""), []string{"frequncy_hz"}, 0},
+		// No cascades: a missing required key is not also out of range; a typo in
+		// [source] is not also a missing source form; both l and x are one problem.
+		{"missing not also out of range", replace("frequency_hz", ""), []string{"frequency_hz"}, 0},
+		{"typo in source", base + "[source]\nshort_circuit_mv = 15000\nx_over_r = 12\n", []string{"source.short_circuit_mv"}, 0},
+		{"both l and x once", base + "x_ohm_per_km = 0.3\n", []string{"line.x_ohm_per_km"}, 0},
+		{"bad duration not also a bad step", base + "[energise]\nduration_ms = -1\ntime_step_us = 5\n", []string{"energise.duration_ms"}, 0},
+		{"sections each", "frequency_hz = 50\nvoltage_kv = 400\n[[line.sections]]\nlength_km = -3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\nc_nf_per_km = 12\n[[line.sections]]\nlength_km = 3\nr_ohm_per_km = 0.1\nl_mh_per_km = 1\n",
+			[]string{"line.sections[0].length_km", "line.sections[1].c_nf_per_km"}, 0},
+		{"capped", manySections, nil, 30 - MaxErrors},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			_, err := Parse("bad.toml", []byte(c.src))
+			var e *Error
+			if !errors.As(err, &e) || !IsInputError(err) {
+				t.Fatalf("error %T is not a *study.Error: %v", err, err)
+			}
+			lines := strings.Split(err.Error(), "\n")
+			keys := c.keys
+			if keys == nil {
+				for i := range MaxErrors {
+					keys = append(keys, fmt.Sprintf("line.sections[%d].length_km", i))
+				}
+			}
+			var wantLines []string
+			for _, k := range keys {
+				wantLines = append(wantLines, "bad.toml: "+k+": ")
+			}
+			if c.omitted > 0 {
+				wantLines = append(wantLines, fmt.Sprintf("bad.toml: and %d more problems", c.omitted))
+			}
+			if len(lines) != len(wantLines) {
+				t.Fatalf("%d lines, want %d:\n%s", len(lines), len(wantLines), err)
+			}
+			for i, w := range wantLines {
+				if !strings.HasPrefix(lines[i], w) {
+					t.Errorf("line %d = %q, want it to start with %q", i, lines[i], w)
+				}
+			}
+			if e.Key != keys[0] || len(e.Others) != len(keys)-1 || e.Omitted != c.omitted {
+				t.Errorf("first key %q, %d others, %d omitted; want %q, %d, %d", e.Key, len(e.Others), e.Omitted, keys[0], len(keys)-1, c.omitted)
+			}
+		})
 	}
 }

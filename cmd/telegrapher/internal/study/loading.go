@@ -26,7 +26,7 @@ func parseLoading(ld *Loader, t *Table) error {
 	t.Known("thermal_rating_a")
 	if a, ok := t.Float("thermal_rating_a"); ok {
 		t.Positive("thermal_rating_a", a)
-		t.AtMost("thermal_rating_a", a, 1e6)
+		t.Between("thermal_rating_a", a, 1, 1e6)
 		ld.Study.Loading.ThermalRating = a
 		ld.Note("loading.thermal_rating_a", fmt.Sprintf("%g A per phase = %.4g MVA at voltage_kv", a, 1.7320508075688772*ld.Study.Voltage*a/1e6), "given")
 	}

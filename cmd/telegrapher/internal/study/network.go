@@ -11,20 +11,34 @@ import (
 	"github.com/telegrapher/telegrapher/freqscan"
 )
 
+// Bounds of [source], [[shunt]] and [receiving] (README's key tables list them):
+// smaller values mean nothing physical and break the numerics (an impedance of
+// 1e-320 ohm is a conductance of infinity).
+const (
+	minMVA       = 1    // short-circuit levels, MVA
+	minXOverR    = 0.1  // X/R of a system
+	maxXOverR    = 1e4  //
+	minSourceOhm = 1e-6 // source resistance when not 0, ohm
+	maxSourceOhm = 1e6  //
+	minSourceMH  = 1e-6 // source inductance when not 0, mH
+	maxSourceMH  = 1e6  //
+	minShuntMvar = 1e-3 // a shunt's rating, Mvar, in size
+	maxShuntMvar = 1e5  //
+	minLoadMW    = 1e-3 // a load's P or Q when not 0, MW or Mvar
+)
+
 // source reads [source]: a short-circuit level with X/R, or R with L (or X).
 //
 //	|Z| = V²/S,  R = |Z|/sqrt(1 + (X/R)²),  X = R·(X/R),  L = X/ω
 func (ld *Loader) source(t *Table) {
-	if ld.Failed() {
-		return
-	}
 	sp := &ld.Study.Source
 	sp.X0OverX1 = 1
 	if k, ok := t.Float("x0_over_x1"); ok {
 		t.Positive("x0_over_x1", k)
-		t.AtMost("x0_over_x1", k, 1000)
+		t.Between("x0_over_x1", k, 0.01, 100)
 		sp.X0OverX1, sp.HasX0OverX1 = k, true
 	}
+	m := ld.mark() // an unknown key or a wrong type below hides which form is meant
 	if !t.Present() {
 		sp.Ideal = true
 		ld.Note("source", "ideal (zero impedance)", "default: no [source]")
@@ -35,7 +49,7 @@ func (ld *Loader) source(t *Table) {
 	scForm := t.Has("short_circuit_mva") || t.Has("x_over_r")
 	rlForm := t.Has("r_ohm") || t.Has("l_mh") || t.Has("x_ohm")
 	switch {
-	case ld.Failed():
+	case ld.failedSince(m):
 		return
 	case scForm && rlForm:
 		first := "short_circuit_mva"
@@ -56,9 +70,11 @@ func (ld *Loader) source(t *Table) {
 		k := required(t, "x_over_r", "x_over_r = 12")
 		t.Positive("short_circuit_mva", s)
 		t.AtMost("short_circuit_mva", s, maxMVA)
+		t.Between("short_circuit_mva", s, minMVA, maxMVA)
 		t.Positive("x_over_r", k)
-		t.AtMost("x_over_r", k, 1e4)
-		if ld.Failed() {
+		t.AtMost("x_over_r", k, maxXOverR)
+		t.Between("x_over_r", k, minXOverR, maxXOverR)
+		if ld.failedSince(m) {
 			return
 		}
 		z := v * v / (s * 1e6)
@@ -70,35 +86,32 @@ func (ld *Loader) source(t *Table) {
 		ld.Note("source.l_mh", fmt.Sprintf("%.6g mH (X = %.6g ohm at %g Hz)", sp.L*1e3, r*k, ld.Study.Frequency), "from X/R")
 	case rlForm:
 		r := required(t, "r_ohm", "r_ohm = 0.9")
-		if ld.Failed() {
-			return
-		}
 		t.NonNegative("r_ohm", r)
-		t.AtMost("r_ohm", r, 1e6)
+		t.ZeroOr("r_ohm", r, minSourceOhm, maxSourceOhm)
 		sp.R = r
 		ld.Note("source.r_ohm", fmt.Sprintf("%g ohm", r), "given")
 		switch t.Exclusive("l_mh", "x_ohm") {
 		case "l_mh":
 			l, _ := t.Float("l_mh")
 			t.NonNegative("l_mh", l)
-			t.AtMost("l_mh", l, 1e6)
+			t.ZeroOr("l_mh", l, minSourceMH, maxSourceMH)
 			sp.L = l * 1e-3
 			ld.Note("source.l_mh", fmt.Sprintf("%g mH", l), "given")
 		case "x_ohm":
 			x, _ := t.Float("x_ohm")
 			t.NonNegative("x_ohm", x)
-			t.AtMost("x_ohm", x, 1e6)
+			if x != 0 {
+				ld.throughOmega(t, "x_ohm", x, w*1e-3, [2]float64{minSourceMH, maxSourceMH}, "mH", "ohm")
+			}
 			sp.L = x / w
 			ld.Note("source.l_mh", fmt.Sprintf("%.6g mH", sp.L*1e3), fmt.Sprintf("from x_ohm = %g ohm at %g Hz", x, ld.Study.Frequency))
 		default:
-			if !ld.Failed() {
+			if !t.Has("l_mh") && !t.Has("x_ohm") {
 				t.Errorf("l_mh", "missing: give the source inductance l_mh (0 for a resistive source) or reactance x_ohm, with r_ohm")
 			}
 		}
 	default:
-		if !ld.Failed() {
-			t.Errorf("short_circuit_mva", "missing: give short_circuit_mva with x_over_r, or r_ohm with l_mh (or x_ohm); leave out [source] for an ideal source")
-		}
+		t.Errorf("short_circuit_mva", "missing: give short_circuit_mva with x_over_r, or r_ohm with l_mh (or x_ohm); leave out [source] for an ideal source")
 		return
 	}
 	if sp.HasX0OverX1 {
@@ -112,9 +125,6 @@ func (ld *Loader) source(t *Table) {
 // shunts reads [[shunt]]: a rating Q at voltage_kv and frequency_hz gives X = V²/|Q|;
 // a reactor L = X/ω, a capacitor C = 1/(ωX); q_factor gives R = X/q in series.
 func (ld *Loader) shunts(root *Table) {
-	if ld.Failed() {
-		return
-	}
 	tabs := root.Subs("shunt")
 	if len(tabs) > MaxShunts {
 		root.Errorf("shunt", "must have at most %d entries, got %d", MaxShunts, len(tabs))
@@ -122,27 +132,26 @@ func (ld *Loader) shunts(root *Table) {
 	}
 	w, v := ld.omega(), ld.Study.Voltage
 	for _, t := range tabs {
+		m := ld.mark()
 		t.Known(shuntKeys...)
 		name, _ := t.String("name")
 		at, ok := t.String("at")
-		if !ok && !ld.Failed() {
+		if !ok && !t.Has("at") {
 			t.Errorf("at", `missing: give at = "sending" or at = "receiving"`)
 		}
 		t.OneOf("at", at, "sending", "receiving")
 		conn, ok := t.String("connection")
-		if !ok && !ld.Failed() {
+		if !ok && !t.Has("connection") {
 			t.Errorf("connection", `missing: give connection = "line" (switched with the line) or connection = "bus"`)
 		}
 		t.OneOf("connection", conn, "line", "bus")
 		q := required(t, "mvar", "mvar = 150 (a reactor; negative for a capacitor)")
-		if ld.Failed() {
-			return
-		}
-		if q == 0 {
+		if q == 0 && t.Has("mvar") {
 			t.Errorf("mvar", "must not be 0 (> 0 reactor, < 0 capacitor), got 0")
-			return
 		}
-		t.AtMost("mvar", math.Abs(q), maxMVA)
+		if !(math.Abs(q) >= minShuntMvar && math.Abs(q) <= maxShuntMvar) {
+			t.Errorf("mvar", "must be between %s and %s in size (> 0 reactor, < 0 capacitor), got %s", num(minShuntMvar), num(maxShuntMvar), num(q))
+		}
 		sh := freqscan.Shunt{Name: name, OnLine: conn == "line"}
 		if at == "receiving" {
 			sh.End = freqscan.Receiving
@@ -158,15 +167,12 @@ func (ld *Loader) shunts(root *Table) {
 		losses := "lossless"
 		if qf, ok := t.Float("q_factor"); ok {
 			t.Positive("q_factor", qf)
-			t.AtMost("q_factor", qf, 1e6)
-			if ld.Failed() {
-				return
-			}
+			t.Between("q_factor", qf, 1, 1e5)
 			sh.R = x / qf
 			losses = fmt.Sprintf("q_factor %g: R = %.6g ohm in series", qf, sh.R)
 		}
-		if ld.Failed() {
-			return
+		if ld.failedSince(m) {
+			continue
 		}
 		val := fmt.Sprintf("%g Mvar %s at the %s end, %s-connected; ", math.Abs(q), kind, at, conn)
 		if sh.L > 0 {
@@ -182,10 +188,8 @@ func (ld *Loader) shunts(root *Table) {
 // receiving reads [receiving]: the load R = V²/P in parallel with L = V²/(Qω) (Q > 0)
 // or C = |Q|/(V²ω) (Q < 0), and the receiving-end system for loadability.
 func (ld *Loader) receiving(t *Table) {
-	if ld.Failed() || !t.Present() {
-		if !t.Present() {
-			ld.Note("receiving", "nothing beyond the line", "default: no [receiving]")
-		}
+	if !t.Present() {
+		ld.Note("receiving", "nothing beyond the line", "default: no [receiving]")
 		return
 	}
 	t.Known(receivingKeys...)
@@ -193,7 +197,7 @@ func (ld *Loader) receiving(t *Table) {
 	w, v := ld.omega(), ld.Study.Voltage
 	if p, ok := t.Float("load_mw"); ok {
 		t.NonNegative("load_mw", p)
-		t.AtMost("load_mw", p, maxMVA)
+		t.ZeroOr("load_mw", p, minLoadMW, maxMVA)
 		rs.LoadW = p * 1e6
 		if p > 0 {
 			ld.Study.Network.Load.R = v * v / rs.LoadW
@@ -205,7 +209,7 @@ func (ld *Loader) receiving(t *Table) {
 		}
 	}
 	if q, ok := t.Float("load_mvar"); ok {
-		t.AtMost("load_mvar", math.Abs(q), maxMVA)
+		t.ZeroOr("load_mvar", math.Abs(q), minLoadMW, maxMVA)
 		rs.LoadVar = q * 1e6
 		switch {
 		case q > 0:
@@ -223,8 +227,10 @@ func (ld *Loader) receiving(t *Table) {
 		k := required(t, "x_over_r", "x_over_r = 10")
 		t.Positive("short_circuit_mva", s)
 		t.AtMost("short_circuit_mva", s, maxMVA)
+		t.Between("short_circuit_mva", s, minMVA, maxMVA)
 		t.Positive("x_over_r", k)
-		t.AtMost("x_over_r", k, 1e4)
+		t.AtMost("x_over_r", k, maxXOverR)
+		t.Between("x_over_r", k, minXOverR, maxXOverR)
 		rs.ShortCircuitVA, rs.XOverR = s*1e6, k
 		ld.Note("receiving.short_circuit_mva", fmt.Sprintf("%g MVA, X/R %g", s, k), "given")
 	}
@@ -244,9 +250,6 @@ func (ld *Loader) receiving(t *Table) {
 
 // build assembles the positive- and zero-sequence networks.
 func (ld *Loader) build() {
-	if ld.Failed() {
-		return
-	}
 	st := ld.Study
 	st.Network.Source = freqscan.Source{R: st.Source.R, L: st.Source.L}
 	st.Network.Line = st.Line
@@ -277,9 +280,6 @@ func (ld *Loader) build() {
 
 // scan reads [scan].
 func (ld *Loader) scan(t *Table) {
-	if ld.Failed() {
-		return
-	}
 	t.Known(scanKeys...)
 	sc := &ld.Study.Scan
 	f0 := ld.Study.Frequency
@@ -291,8 +291,10 @@ func (ld *Loader) scan(t *Table) {
 		ld.Note("scan."+key, val, how)
 	}
 	var ok bool
+	m := ld.mark()
 	if sc.FMin, ok = t.Float("f_min_hz"); ok {
 		t.Positive("f_min_hz", sc.FMin)
+		t.Between("f_min_hz", sc.FMin, minScanHz, maxScanHz)
 	} else {
 		sc.FMin = 1
 	}
@@ -301,7 +303,7 @@ func (ld *Loader) scan(t *Table) {
 		sc.FMax = 50 * f0
 	}
 	t.AtMost("f_max_hz", sc.FMax, maxScanHz)
-	if !ld.Failed() && !(sc.FMax > sc.FMin) {
+	if !ld.failedSince(m) && !(sc.FMax > sc.FMin) {
 		t.Errorf("f_max_hz", "must be > f_min_hz (%g), got %g", sc.FMin, sc.FMax)
 	}
 	note("f_max_hz", fmt.Sprintf("%g Hz", sc.FMax), ok)
@@ -335,6 +337,7 @@ func (ld *Loader) scan(t *Table) {
 	note("watch_harmonics", fmt.Sprint(sc.WatchHarmonics), ok)
 	if sc.GainLimit, ok = t.Float("gain_limit"); ok {
 		t.Positive("gain_limit", sc.GainLimit)
+		t.Between("gain_limit", sc.GainLimit, 1e-3, 1e6)
 	} else {
 		sc.GainLimit = 2
 	}
@@ -344,6 +347,7 @@ func (ld *Loader) scan(t *Table) {
 		if !(pct > 0 && pct < 50) {
 			t.Errorf("watch_band_pct", "must be > 0 and < 50, got %g", pct)
 		}
+		t.Between("watch_band_pct", pct, 0.1, 49)
 	} else {
 		pct = 10
 	}
@@ -362,6 +366,8 @@ func (ld *Loader) scan(t *Table) {
 			t.Errorf("short_circuit_mva_range", "must be [min, max], got %d numbers", len(r))
 		} else if !(r[0] > 0 && r[1] > r[0] && r[1] <= maxMVA) {
 			t.Errorf("short_circuit_mva_range", "must be [min, max] with 0 < min < max <= %g, got [%g, %g]", float64(maxMVA), r[0], r[1])
+		} else if !(r[0] >= minMVA) {
+			t.Errorf("short_circuit_mva_range", "must be [min, max] with min >= %g MVA, got [%g, %g]", float64(minMVA), r[0], r[1])
 		} else {
 			sc.ShortCircuitRange = [2]float64{r[0] * 1e6, r[1] * 1e6}
 			note("short_circuit_mva_range", fmt.Sprintf("%g to %g MVA", r[0], r[1]), true)
@@ -397,8 +403,9 @@ func (ld *Loader) scan(t *Table) {
 // harmonicTable reads an inline table keyed by harmonic number, e.g. { 5 = 1.5 }, with
 // values in percent (0 to 100).
 func (ld *Loader) harmonicTable(t *Table, key string) map[int]float64 {
+	m := ld.mark()
 	sub := t.Sub(key)
-	if ld.Failed() || !sub.Present() {
+	if ld.failedSince(m) || !sub.Present() {
 		return nil
 	}
 	out := map[int]float64{}
@@ -407,13 +414,13 @@ func (ld *Loader) harmonicTable(t *Table, key string) map[int]float64 {
 		h, err := strconv.Atoi(k)
 		if err != nil || h < 1 || h > 1000 {
 			sub.Errorf(k, "must be a harmonic number 1 to 1000 as key, e.g. { 5 = 1.5, 7 = 1.0 }")
-			return nil
+			continue
 		}
 		v, _ := sub.Float(k)
 		sub.Between(k, v, 0, 100)
 		out[h] = v
 	}
-	if ld.Failed() {
+	if ld.failedSince(m) {
 		return nil
 	}
 	return out
@@ -421,9 +428,6 @@ func (ld *Loader) harmonicTable(t *Table, key string) map[int]float64 {
 
 // energise reads [energise].
 func (ld *Loader) energise(t *Table) {
-	if ld.Failed() {
-		return
-	}
 	t.Known(energiseKeys...)
 	e := &ld.Study.Energise
 	note := func(key, val string, given bool) {
@@ -453,12 +457,14 @@ func (ld *Loader) energise(t *Table) {
 	e.TrappedPU, ok = t.Float("trapped_pu")
 	t.Between("trapped_pu", e.TrappedPU, -2, 2)
 	note("trapped_pu", fmt.Sprintf("%g pu", e.TrappedPU), ok)
+	md := ld.mark()
 	ms, ok := t.Float("duration_ms")
 	if !ok {
 		ms = 20
 	}
 	t.Positive("duration_ms", ms)
 	t.AtMost("duration_ms", ms, 10_000)
+	t.Between("duration_ms", ms, 1e-3, 10_000)
 	e.Duration, e.DurationGiven = ms/1e3, ok
 	if ok {
 		note("duration_ms", fmt.Sprintf("%g ms", ms), ok)
@@ -467,7 +473,7 @@ func (ld *Loader) energise(t *Table) {
 	}
 	us, ok := t.Float("time_step_us")
 	t.NonNegative("time_step_us", us)
-	if !ld.Failed() && us > 0 {
+	if !ld.failedSince(md) && us > 0 {
 		if n := ms * 1e3 / us; n > MaxSamples {
 			t.Errorf("time_step_us", "gives %.0f samples over duration_ms = %g; at most %d, so time_step_us must be at least %g, got %g", n, ms, MaxSamples, ms*1e3/MaxSamples, us)
 		}
@@ -475,6 +481,7 @@ func (ld *Loader) energise(t *Table) {
 			t.Errorf("time_step_us", "must be shorter than duration_ms (%g ms), got %g us", ms, us)
 		}
 	}
+	t.ZeroOr("time_step_us", us, 1e-3, 1e4)
 	e.TimeStep = us / 1e6
 	if us == 0 {
 		note("time_step_us", "0: chosen by the method", ok)

@@ -81,7 +81,6 @@ const (
 	maxLeverMvar  = 1e5 // a reactor, Mvar
 	maxLeverOhm   = 1e5 // a pre-insertion resistor, ohm
 	maxArresterKV = 2000
-	maxTargetPU   = 100
 )
 
 func init() {
@@ -100,7 +99,7 @@ func parseLevers(ld *Loader, t *Table) error {
 		return nil
 	}
 	t.Known(leverKeys...)
-	rng := func(key string, limit float64, unit float64, what string) *Range {
+	rng := func(key string, limit, least float64, unitName string, unit float64, what string) *Range {
 		v, ok := t.Floats(key)
 		if !ok {
 			return nil
@@ -113,12 +112,16 @@ func parseLevers(ld *Loader, t *Table) error {
 			t.Errorf(key, "must be a range [min, max] with 0 <= min <= max, 0 < max <= %s, got [%s, %s]", num(limit), num(v[0]), num(v[1]))
 			return nil
 		}
+		if v[0] != 0 && v[0] < least || v[1] < least {
+			t.Errorf(key, "must be a range [min, max] whose ends are 0 or at least %s %s, got [%s, %s]", num(least), unitName, num(v[0]), num(v[1]))
+			return nil
+		}
 		ld.Note(t.KeyPath(key), fmt.Sprintf("none, or %s to %s %s", num(v[0]), num(v[1]), what), "given")
 		return &Range{Min: v[0] * unit, Max: v[1] * unit}
 	}
-	lv.ReactorSending = rng("reactor_mvar_sending", maxLeverMvar, 1e6, "Mvar line-connected at the sending end")
-	lv.ReactorReceiving = rng("reactor_mvar_receiving", maxLeverMvar, 1e6, "Mvar line-connected at the receiving end")
-	lv.Preinsertion = rng("preinsertion_ohm", maxLeverOhm, 1, "ohm pre-insertion resistor")
+	lv.ReactorSending = rng("reactor_mvar_sending", maxLeverMvar, minShuntMvar, "Mvar", 1e6, "Mvar line-connected at the sending end")
+	lv.ReactorReceiving = rng("reactor_mvar_receiving", maxLeverMvar, minShuntMvar, "Mvar", 1e6, "Mvar line-connected at the receiving end")
+	lv.Preinsertion = rng("preinsertion_ohm", maxLeverOhm, 1, "ohm", 1, "ohm pre-insertion resistor")
 	if b, ok := t.Bool("controlled_closing"); ok {
 		lv.Controlled = b
 		ld.Note(t.KeyPath("controlled_closing"), fmt.Sprint(b), "given")
@@ -141,6 +144,10 @@ func parseLevers(ld *Loader, t *Table) error {
 		for i, x := range v {
 			if !(x > 0) || x > maxArresterKV {
 				t.Errorf(fmt.Sprintf("arresters_kv[%d]", i), "must be a rated voltage > 0 and at most %d kV, got %s", maxArresterKV, num(x))
+				break
+			}
+			if x < arresterKVBounds[0] {
+				t.Errorf(fmt.Sprintf("arresters_kv[%d]", i), "must be a rated voltage between %s and %d kV, got %s", num(arresterKVBounds[0]), maxArresterKV, num(x))
 				break
 			}
 		}
@@ -180,13 +187,13 @@ func parseTargets(ld *Loader, t *Table) error {
 	var tg Targets
 	if v, ok := t.Float("max_open_end_pu"); ok {
 		t.Positive("max_open_end_pu", v)
-		t.AtMost("max_open_end_pu", v, maxTargetPU)
+		t.Between("max_open_end_pu", v, 0.5, 10)
 		tg.HasOpenEnd, tg.OpenEndPU = true, v
 		ld.Note(t.KeyPath("max_open_end_pu"), fmt.Sprintf("%s pu (no-load |Vr/Vs| at %g Hz)", num(v), ld.Study.Frequency), "given")
 	}
 	if v, ok := t.Float("max_gain_watched"); ok {
 		t.Positive("max_gain_watched", v)
-		t.AtMost("max_gain_watched", v, 1e6)
+		t.Between("max_gain_watched", v, 0.1, 1e4)
 		tg.HasGainWatched, tg.GainWatched = true, v
 		ld.Note(t.KeyPath("max_gain_watched"), fmt.Sprintf("%s (|Vr/E| near the watched harmonics)", num(v)), "given")
 	}
@@ -197,7 +204,7 @@ func parseTargets(ld *Loader, t *Table) error {
 	}
 	if v, ok := t.Float("max_u2_pu"); ok {
 		t.Positive("max_u2_pu", v)
-		t.AtMost("max_u2_pu", v, maxTargetPU)
+		t.Between("max_u2_pu", v, 1, 10)
 		zeroNeeded("max_u2_pu")
 		tg.HasU2, tg.U2PU = true, v
 		ld.Note(t.KeyPath("max_u2_pu"), fmt.Sprintf("%s pu (IEC 60071-1 base)", num(v)), "given")

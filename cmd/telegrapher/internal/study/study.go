@@ -29,6 +29,10 @@ type Study struct {
 
 	// Understood lists what the loader read, in file order, for `check`.
 	Understood []Entry
+	// Warnings are values far from what such lines have, each "key.path: problem":
+	// the study runs, and the CLI prints them on standard error, in `check` and in
+	// the report's inputs.
+	Warnings []string
 
 	switchingOpts SwitchingOptions // [switching] keys beyond the contract's
 	remedy        RemedySpec       // [targets] and [levers]

@@ -328,6 +328,9 @@ func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (Swi
 			seen = append(seen, Entry{Key: ap, Value: desc, How: "given"})
 		}
 	}
+	if err := checkSwitchingBounds(file, tbl); err != nil {
+		return s, o, nil, err
+	}
 	return s, o, seen, nil
 }
 

@@ -4,10 +4,11 @@ package study
 // every message and unknown-key reporting with a did-you-mean hint. The core loader
 // (load.go) and every registered table parser (see the top of load.go) use it.
 //
-// Errors are sticky: the first problem is recorded in the Loader and every later call
-// returns zero values, so a parser reads its keys in order and checks ld.Err() (or
-// simply returns) at the end. Keys are visited in a fixed order so the first error
-// reported for a file is always the same one.
+// Problems are collected: each is recorded in the Loader (one per key path, at most
+// MaxErrors) and reading goes on, so a file with several mistakes gets them all in one
+// message. A parser gates a check that depends on an earlier value on that value being
+// good (ld.Failed, or a mark taken before reading it), and returns ld.Err() at the
+// end. Keys are visited in a fixed order so the problems come in the same order.
 
 import (
 	"fmt"
@@ -18,42 +19,88 @@ import (
 )
 
 // Loader carries the state of one load: the file name, the study being built, the
-// first error, and values that parsers share (the geometry's conductors, say).
+// problems found so far, and values that parsers share (the geometry's conductors, say).
 type Loader struct {
 	File  string // the study file as given, for messages
 	Study *Study // the study being built; filled in stage order
 
-	root   *Table
-	err    *Error
-	shared map[string]any
+	root    *Table
+	errs    []*Error        // problems in the order found, at most MaxErrors
+	omitted int             // problems beyond MaxErrors
+	dropped int             // second problems of a key already reported (not shown)
+	keys    map[string]bool // key paths with a problem: one problem per key
+	shared  map[string]any
 }
 
-// Err returns the first error recorded, or nil.
+// Err returns nil, or every problem recorded as one *Error (see Error).
 func (ld *Loader) Err() error {
-	if ld.err == nil {
+	if len(ld.errs) == 0 {
 		return nil
 	}
-	return ld.err
+	first := *ld.errs[0]
+	first.Others = append([]*Error(nil), ld.errs[1:]...)
+	first.Omitted = ld.omitted
+	return &first
 }
 
-// Failed reports whether an error has been recorded.
-func (ld *Loader) Failed() bool { return ld.err != nil }
+// Failed reports whether a problem has been recorded.
+func (ld *Loader) Failed() bool { return len(ld.errs) > 0 }
 
-// Fail records err (the first one wins). A non-*Error is kept with its text and
-// attributed to key.
+// mark returns a position in the list of problems, for failedSince.
+func (ld *Loader) mark() int { return len(ld.errs) + ld.omitted + ld.dropped }
+
+// failedSince reports whether a problem was recorded after mark m: a check that
+// depends on values read since m is skipped then, so one mistake gives one message.
+func (ld *Loader) failedSince(m int) bool { return ld.mark() > m }
+
+// add records e unless its key already has a problem (the first one per key is kept,
+// so a missing key is not also reported as out of range).
+func (ld *Loader) add(e *Error) {
+	if ld.keys == nil {
+		ld.keys = map[string]bool{}
+	}
+	for _, o := range ld.errs {
+		if o.File == e.File && o.Key == e.Key && o.Line == e.Line && o.Msg == e.Msg && o.text == e.text {
+			return // a parser returning ld.Err() hands back what is recorded already
+		}
+	}
+	if e.Key != "" {
+		if ld.keys[e.Key] {
+			ld.dropped++
+			return
+		}
+		ld.keys[e.Key] = true
+	}
+	if len(ld.errs) >= MaxErrors {
+		ld.omitted++
+		return
+	}
+	ld.errs = append(ld.errs, e)
+}
+
+// Fail records err. A non-*Error is kept with its text and attributed to key; an
+// *Error carrying others (a nested load) adds each of them.
 func (ld *Loader) Fail(key string, err error) {
-	if err == nil || ld.err != nil {
+	if err == nil {
 		return
 	}
-	ld.err = wrapHookError(ld.File, key, err)
+	e := wrapHookError(ld.File, key, err)
+	others, omitted := e.Others, e.Omitted
+	if len(others) > 0 || omitted > 0 {
+		c := *e
+		c.Others, c.Omitted = nil, 0
+		e = &c
+	}
+	ld.add(e)
+	for _, o := range others {
+		ld.add(o)
+	}
+	ld.omitted += omitted
 }
 
-// Errorf records the error `FILE: key: problem` (the first one wins).
+// Errorf records the problem `FILE: key: problem`.
 func (ld *Loader) Errorf(key, format string, a ...any) {
-	if ld.err != nil {
-		return
-	}
-	ld.err = &Error{File: ld.File, Key: key, Msg: fmt.Sprintf(format, a...)}
+	ld.add(&Error{File: ld.File, Key: key, Msg: fmt.Sprintf(format, a...)})
 }
 
 // Set stores a value other parsers may need (for example "conductors").
@@ -138,7 +185,7 @@ func (t *Table) Errorf(key, format string, a ...any) {
 // given. NaN and infinities are rejected, as are other types.
 func (t *Table) Float(key string) (float64, bool) {
 	v, ok := t.m[key]
-	if !ok || t.ld.Failed() {
+	if !ok {
 		return 0, false
 	}
 	f, good := toFloat(v)
@@ -157,7 +204,7 @@ func (t *Table) Float(key string) (float64, bool) {
 // value is accepted.
 func (t *Table) Int(key string) (int64, bool) {
 	v, ok := t.m[key]
-	if !ok || t.ld.Failed() {
+	if !ok {
 		return 0, false
 	}
 	n, good := toInt(v)
@@ -171,7 +218,7 @@ func (t *Table) Int(key string) (int64, bool) {
 // String returns the string at key and whether it is given.
 func (t *Table) String(key string) (string, bool) {
 	v, ok := t.m[key]
-	if !ok || t.ld.Failed() {
+	if !ok {
 		return "", false
 	}
 	s, good := v.(string)
@@ -185,7 +232,7 @@ func (t *Table) String(key string) (string, bool) {
 // Bool returns the boolean at key and whether it is given.
 func (t *Table) Bool(key string) (bool, bool) {
 	v, ok := t.m[key]
-	if !ok || t.ld.Failed() {
+	if !ok {
 		return false, false
 	}
 	b, good := v.(bool)
@@ -235,7 +282,7 @@ func (t *Table) Ints(key string) ([]int64, bool) {
 
 func (t *Table) array(key string) ([]any, bool) {
 	v, ok := t.m[key]
-	if !ok || t.ld.Failed() {
+	if !ok {
 		return nil, false
 	}
 	arr, good := v.([]any)
@@ -258,7 +305,7 @@ const maxArray = 10000
 func (t *Table) Sub(key string) *Table {
 	sub := &Table{ld: t.ld, path: t.KeyPath(key)}
 	v, ok := t.m[key]
-	if !ok || t.ld.Failed() {
+	if !ok {
 		return sub
 	}
 	m, good := v.(map[string]any)
@@ -274,7 +321,7 @@ func (t *Table) Sub(key string) *Table {
 // key[0], key[1], ...; nil when absent.
 func (t *Table) Subs(key string) []*Table {
 	v, ok := t.m[key]
-	if !ok || t.ld.Failed() {
+	if !ok {
 		return nil
 	}
 	var maps []map[string]any
@@ -308,16 +355,17 @@ func (t *Table) Subs(key string) []*Table {
 	return out
 }
 
-// Known reports the first key of the table (in sorted order) that is not in known, as
+// Known reports every key of the table (in sorted order) that is not in known, as
 // `unknown key` with a did-you-mean hint.
+// When the hint names a key the table lacks, that key counts as reported: the typo
+// is the one mistake, not also a missing key.
 func (t *Table) Known(known ...string) {
-	if t.ld.Failed() {
-		return
-	}
 	for _, k := range orderedKeys(t.m) {
 		if !contains(known, k) {
 			t.Errorf(k, "unknown key%s; known here: %s", DidYouMean(k, known), strings.Join(known, ", "))
-			return
+			if c := closest(k, known); c != "" && !t.Has(c) {
+				t.ld.keys[t.KeyPath(c)] = true // keys is made by the Errorf above
+			}
 		}
 	}
 }
@@ -347,6 +395,14 @@ func (t *Table) AtMost(key string, v, max float64) {
 func (t *Table) Between(key string, v, lo, hi float64) {
 	if !(v >= lo && v <= hi) {
 		t.Errorf(key, "must be between %s and %s, got %s", num(lo), num(hi), num(v))
+	}
+}
+
+// ZeroOr checks v == 0 or lo <= v <= hi: a quantity that may be zero (none, lossless)
+// but, when present, must be large enough to mean something to the numerics.
+func (t *Table) ZeroOr(key string, v, lo, hi float64) {
+	if v != 0 && !(v >= lo && v <= hi) {
+		t.Errorf(key, "must be 0 or between %s and %s, got %s", num(lo), num(hi), num(v))
 	}
 }
 
@@ -458,16 +514,22 @@ func orderedKeys(m map[string]any) []string {
 // distance of about a third of the word (at least 2), or "". The CLI uses it for
 // command and CSV column names too.
 func DidYouMean(s string, candidates []string) string {
+	best := closest(s, candidates)
+	if best == "" {
+		return ""
+	}
+	return fmt.Sprintf(" (did you mean %q?)", best)
+}
+
+// closest is the candidate DidYouMean suggests, or "".
+func closest(s string, candidates []string) string {
 	best, bestD := "", max(2, len(s)/3)+1
 	for _, c := range candidates {
 		if d := levenshtein(s, c); d < bestD {
 			best, bestD = c, d
 		}
 	}
-	if best == "" {
-		return ""
-	}
-	return fmt.Sprintf(" (did you mean %q?)", best)
+	return best
 }
 
 // levenshtein is the edit distance between a and b (insertions, deletions,

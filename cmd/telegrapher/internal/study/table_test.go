@@ -80,23 +80,37 @@ v = "bad"
 	if err == nil || !strings.HasPrefix(err.Error(), "t.toml: arr[1].v: must be a number, got the string") {
 		t.Fatalf("error %v", err)
 	}
-	// Sticky: later problems do not replace the first, later reads return zero.
+	// Collected: a later problem on another key is added after the first, a second one
+	// on the same key is dropped, and reading goes on.
 	root.Errorf("a", "second problem")
-	if v, ok := root.Float("a"); ok || v != 0 || !strings.Contains(ld.Err().Error(), "arr[1].v") {
-		t.Errorf("error not sticky: %v", ld.Err())
+	root.Errorf("a", "third problem, same key")
+	if v, ok := root.Float("a"); !ok || v != 1.5 {
+		t.Errorf("reading stopped after a problem: %v %v", v, ok)
 	}
+	want := "t.toml: arr[1].v: must be a number, got the string \"bad\"\nt.toml: a: second problem"
+	if got := ld.Err().Error(); got != want {
+		t.Errorf("problems:\n%s\nwant:\n%s", got, want)
+	}
+}
+
+// firstError returns the first problem recorded by ld.
+func firstError(ld *Loader) *Error {
+	if len(ld.errs) == 0 {
+		return nil
+	}
+	return ld.errs[0]
 }
 
 func TestTableKnownAndExclusive(t *testing.T) {
 	t.Parallel()
 	ld, root := fakeTable(t, "shots = 1\nsede = 2\n")
 	root.Known("shots", "seed")
-	if e := ld.err; e == nil || e.Key != "sede" || !strings.Contains(e.Msg, `did you mean "seed"`) {
+	if e := firstError(ld); e == nil || e.Key != "sede" || !strings.Contains(e.Msg, `did you mean "seed"`) {
 		t.Errorf("Known: %v", ld.Err())
 	}
 	ld, root = fakeTable(t, "l = 1\nx = 2\n")
 	root.Exclusive("l", "x")
-	if e := ld.err; e == nil || e.Key != "x" || !strings.Contains(e.Msg, "alternatives") {
+	if e := firstError(ld); e == nil || e.Key != "x" || !strings.Contains(e.Msg, "alternatives") {
 		t.Errorf("Exclusive: %v", ld.Err())
 	}
 }
@@ -104,4 +118,17 @@ func TestTableKnownAndExclusive(t *testing.T) {
 func decodeForTest(src string, m *map[string]any) error {
 	_, err := toml.Decode(src, m)
 	return err
+}
+
+// A parser that returns ld.Err() hands back every problem recorded so far; Fail
+// records none of them twice, a whole-file one (no key) included.
+func TestFailKeepsEachProblemOnce(t *testing.T) {
+	t.Parallel()
+	ld, root := fakeTable(t, "a = 1\n")
+	ld.Errorf("", "a whole-file problem")
+	root.Errorf("a", "a problem of a")
+	ld.Fail("hook", ld.Err())
+	if got := strings.Count(ld.Err().Error(), "\n") + 1; got != 2 {
+		t.Errorf("%d problems after Fail(ld.Err()), want 2:\n%v", got, ld.Err())
+	}
 }

@@ -99,6 +99,13 @@ add('switching-shots-cap', 'shots beyond 100,000', 'switching.shots:', setk(B,'s
 add('scan-points-one', 'a scan of one point', 'scan.points:', setk(B,'scan','points','1'))
 add('us-below-nominal', 'a highest voltage below the nominal', 'us_kv:', setk(B,'','us_kv','300'))
 add('scan-range-reversed', 'f_min_hz above f_max_hz', 'scan.f_', setk(B,'scan','f_min_hz','3000'))
+# issue 15: values that passed "> 0" but broke the numerics, and impossible constants
+add('subnormal-resistance', 'a subnormal series resistance', 'line.r_ohm_per_km: must be 0 or between 1e-06 and 1000, got 1e-320', setk(B,'line','r_ohm_per_km','1e-320'))
+add('subnormal-inductance', 'a subnormal inductance', 'line.l_mh_per_km: must be between 0.0001 and 100, got 1e-320', setk(B,'line','l_mh_per_km','1e-320'))
+add('subnormal-capacitance', 'a subnormal capacitance', 'line.c_nf_per_km: must be between 0.001 and 10000, got 1e-320', setk(B,'line','c_nf_per_km','1e-320'))
+add('subnormal-frequency', 'a subnormal system frequency', 'frequency_hz: must be between 1 and 10000, got 1e-320', setk(B,'','frequency_hz','1e-320'))
+add('subnormal-scan-f-min', 'a subnormal scan start', 'scan.f_min_hz: must be between 0.001 and 1e+07, got 1e-320', setk(B,'scan','f_min_hz','1e-320'))
+add('faster-than-light', 'a capacitance in uF/km in the nF/km key', 'line.c_nf_per_km: the positive-sequence wave velocity 1/sqrt(LC) = 1.088e+07 km/s = 36.28 c', setk(B,'line','c_nf_per_km','0.0089'))
 for old in glob.glob(os.path.join(out, '[0-9][0-9]-*.toml')):
     os.remove(old)
 for i, (name, what, want, src) in enumerate(files, 1):
