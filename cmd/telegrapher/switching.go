@@ -376,7 +376,10 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int, pa
 			}
 		}
 	}
-	shot, wave := sim.Shot(r.Shots[worst].ShotSpec, true)
+	shot, wave, err := sim.Shot(r.Shots[worst].ShotSpec, true)
+	if err != nil {
+		return res, err
+	}
 	res.Worst = wave
 	res.WorstShot = switchingWorst{Index: worst, CloseDeg: math.Mod(shot.CloseDeg, 360), PeakPU: shot.Peak}
 	for k := 0; k < 3; k++ {
