@@ -235,10 +235,10 @@ type SwitchingSimulator struct {
 	dt       float64
 	nNodes   int
 	busNode  [3]int
-	endNode  [][3]int // junction j phase k
-	neutral  [2]int   // node of the star point at each end, -1 none
-	branches []companion  // lumped shunts and neutral reactors
-	src      modalSource  // the source's companions (unused for an ideal source)
+	endNode  [][3]int    // junction j phase k
+	neutral  [2]int      // node of the star point at each end, -1 none
+	branches []companion // lumped shunts and neutral reactors
+	src      modalSource // the source's companions (unused for an ideal source)
 	srcZ     [3]complex128
 	ideal    bool
 	topo     [27]*switchTopo
