@@ -213,6 +213,10 @@ func (a *arresterSet) correct(vu []float64) error {
 			step /= 2
 		}
 	}
+	var err error
+	if !(norm <= a.tol) {
+		err = fmt.Errorf("%w: residual %.3g V after %d Newton iterations", ErrNoConvergence, norm, maxNewton)
+	}
 	eval(v)
 	nu := a.nu
 	for r := 0; r < nu; r++ {
@@ -222,7 +226,7 @@ func (a *arresterSet) correct(vu []float64) error {
 		}
 		vu[r] -= s
 	}
-	return nil
+	return err
 }
 
 // solveSmall solves the augmented system a (n rows of n+1) by Gaussian elimination

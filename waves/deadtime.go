@@ -107,7 +107,7 @@ func newRingDown(sim *SwitchingSimulator, minT, maxT float64) (*ringDown, error)
 	for n := 0; ; n++ {
 		if n > 0 {
 			if err := sim.advance(st, sim.topo[0], [3]float64{}); err != nil {
-				return nil, fmt.Errorf("waves: switching: the dead time's ring-down at %.6g ms after the opening: %w; try a smaller time step", float64(n)*dt*1e3, err)
+				return nil, fmt.Errorf("waves: switching: the dead time's ring-down at %.6g ms after the opening: %w (check the arresters' V-I tables, or try a smaller time step)", float64(n)*dt*1e3, err)
 			}
 		}
 		if n >= rd.s0 {

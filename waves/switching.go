@@ -810,7 +810,7 @@ func (sim *SwitchingSimulator) Run(specs []ShotSpec, workers int, progress func(
 	wg.Wait()
 	for k, err := range errs {
 		if err != nil {
-			return nil, fmt.Errorf("waves: switching: shot %d (closing angle %.4g°): %w; try a smaller time step", k+1, specs[k].CloseDeg, err)
+			return nil, fmt.Errorf("waves: switching: shot %d (closing angle %.4g°): %w (check the arresters' V-I tables, or try a smaller time step)", k+1, specs[k].CloseDeg, err)
 		}
 	}
 	return out, nil
