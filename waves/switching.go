@@ -456,13 +456,13 @@ func (sim *SwitchingSimulator) factorise(base [][]float64, code int) (*switchTop
 			join[l] = b
 		}
 	}
-	tp, err := newTopology(g, join, known, 1e-13)
+	tp, err := newTopology(g, join, known, invertWith(1e-13))
 	if err != nil {
 		return nil, fmt.Errorf("%w: the nodal matrix is singular for pole states %v (a floating part of the circuit)", ErrSwitching, ps)
 	}
 	t := &switchTopo{topology: tp}
 	// Arresters on unknown nodes.
-	arr := &arresterSet{inv: tp.inv, nu: tp.nu, tol: 1e-9 * sim.net.EMFPeak}
+	arr := &arresterSet{inv: tp.f.(*inverse).a, nu: tp.nu, tol: 1e-9 * sim.net.EMFPeak}
 	idx := map[int]int{}
 	nj := len(sim.endNode)
 	for ai, a := range sim.net.Arresters {
