@@ -433,6 +433,8 @@ type linePiece struct {
 	piece
 	ja, jb, a, b   int
 	lag            float64 // τ/Δt
+	l0             int     // whole steps of the lag
+	f              float64 // the fraction of a step interpolated, 0 when within 1e-9 of whole
 	v0             float64
 	va, ia, vb, ib []float64 // rings: step m at m % len
 	n              int       // the step being computed
@@ -444,6 +446,11 @@ func (p *linePiece) hist(ring int) {
 	p.va, p.ia = make([]float64, ring), make([]float64, ring)
 	p.vb, p.ib = make([]float64, ring), make([]float64, ring)
 	p.n = 1
+	p.l0 = int(math.Floor(p.lag + 1e-9))
+	p.f = p.lag - float64(p.l0)
+	if p.f < 1e-9 {
+		p.f = 0
+	}
 }
 
 func (p *linePiece) stamp(g [][]float64) {
@@ -457,22 +464,18 @@ func (p *linePiece) stamp(g [][]float64) {
 
 // delayed returns the ring h at step n − lag, linearly interpolated, init before step 0.
 func (p *linePiece) delayed(h []float64, init float64) float64 {
-	l0 := int(math.Floor(p.lag + 1e-9))
-	f := p.lag - float64(l0)
-	if f < 1e-9 {
-		f = 0
+	a := init
+	if m := p.n - p.l0; m >= 0 {
+		a = h[m%len(h)]
 	}
-	val := func(m int) float64 {
-		if m < 0 {
-			return init
-		}
-		return h[m%len(h)]
-	}
-	a := val(p.n - l0)
-	if f == 0 {
+	if p.f == 0 {
 		return a
 	}
-	return a*(1-f) + val(p.n-l0-1)*f
+	b := init
+	if m := p.n - p.l0 - 1; m >= 0 {
+		b = h[m%len(h)]
+	}
+	return a*(1-p.f) + b*p.f
 }
 
 func (p *linePiece) inject(j []float64, _ drive) {

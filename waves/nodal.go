@@ -166,6 +166,8 @@ type topology struct {
 	nodeU []int     // full node → unknown index, -1 known
 	nodeK []int     // full node → known voltage index (0..2), -1 unknown
 	f     factorisation
+	// plain: every node its own unknown, in order, none known (rhs = j, v = vu)
+	plain bool
 }
 
 // errSingular is returned by newTopology for a singular reduced nodal matrix.
@@ -218,6 +220,10 @@ func newTopology(g [][]float64, join, known []int, factorise func([][]float64) (
 	}
 	if !held {
 		t.guk = nil
+	}
+	t.plain = nu == n
+	for i, u := range t.nodeU {
+		t.plain = t.plain && u == i
 	}
 	f, err := factorise(guu)
 	if err != nil {
@@ -342,6 +348,13 @@ func (s *nodal) inject(e drive) {
 // injections and the known voltages e, corrected by correct if not nil (a
 // compensation for nonlinear elements, which may fail), then every node's voltage.
 func (s *nodal) solve(tp *topology, e drive, correct func(vu []float64) error) error {
+	if tp.plain {
+		tp.f.solve(s.j, s.v)
+		if correct != nil {
+			return correct(s.v)
+		}
+		return nil
+	}
 	nu := tp.nu
 	if cap(s.rhs) < nu {
 		s.rhs = make([]float64, nu)
