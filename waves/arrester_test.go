@@ -1,7 +1,9 @@
 package waves
 
 import (
+	"errors"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -66,4 +68,61 @@ func nearKnot(c *arresterCurve, v, h float64) bool {
 		}
 	}
 	return false
+}
+
+// Newton's method on the arrester equation v = v_lin − Zth·i(v) moves ln v by about
+// 1/α per iteration on the steep side of a power law i ∝ v^α, so a near-ideal clamp
+// (α in the thousands) driven well above its knee cannot converge within the
+// iteration cap: the step must fail with ErrNoConvergence instead of keeping a
+// voltage whose residual is far from zero. A typical metal-oxide curve (α ≤ 40 or
+// so) converges on the same circuit.
+func TestArresterNoConvergenceIsAnError(t *testing.T) {
+	t.Parallel()
+	// A clamp at 0.6 pu of the EMF crest: 1 A at 0.6 pu, 2 A at 0.6 pu + 0.03 %,
+	// α = ln 2 / ln 1.0003 ≈ 2300; closing at the crest drives the far end well
+	// above the knee in the first steps.
+	steep := []VIPoint{{1, 0.6 * swEMF}, {2, 0.6 * swEMF * 1.0003}}
+	cases := []struct {
+		name    string
+		vi      []VIPoint
+		failing bool
+	}{
+		{"typical metal-oxide converges", TypicalArrester(336e3), false},
+		{"near-ideal clamp does not converge", steep, true},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			r, l := swSource()
+			tp, _ := swThreePhase(320, 0.025, 0.25, r, l)
+			tp.Arresters = []Arrester{{Name: "receiving", At: 1, VI: c.vi}}
+			s := SwitchingSettings{Shots: 3, Seed: 1, HasCloseDeg: true, CloseDeg: 90, Duration: 0.005}
+			res, err := Switching(tp, s, nil)
+			if !c.failing {
+				if err != nil {
+					t.Fatal(err)
+				}
+				if len(res.Shots) != 3 {
+					t.Fatalf("%d shots, want 3", len(res.Shots))
+				}
+				return
+			}
+			if !errors.Is(err, ErrNoConvergence) {
+				t.Fatalf("error %v, want one wrapping ErrNoConvergence", err)
+			}
+			t.Log(err)
+			for _, want := range []string{"shot 1", "at t = ", "ms"} {
+				if !strings.Contains(err.Error(), want) {
+					t.Errorf("error %q does not name %q", err, want)
+				}
+			}
+			sim, err := NewSwitchingSimulator(tp, s)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if _, _, err := sim.Shot(ShotSpec{CloseDeg: 90}, true); !errors.Is(err, ErrNoConvergence) {
+				t.Errorf("Shot: error %v, want one wrapping ErrNoConvergence", err)
+			}
+		})
+	}
 }

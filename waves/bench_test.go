@@ -2,6 +2,8 @@ package waves
 
 import (
 	"testing"
+
+	"github.com/telegrapher/telegrapher/freqscan"
 )
 
 // BenchmarkLaplace64k: one op is the open-end energisation waveform (sending and
@@ -17,6 +19,22 @@ func BenchmarkLaplace64k(b *testing.B) {
 	b.ReportAllocs()
 	for b.Loop() {
 		if _, _, err := lt.Energise(n, e, dt); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkBergeron: one op is 20 ms of the energisation of the 300 km test line with
+// an R-L source, a sending-bus capacitor bank and a receiving line-connected reactor
+// by Bergeron with lumped resistance at a 1 µs step (20,000 steps of the nodal engine).
+func BenchmarkBergeron(b *testing.B) {
+	n := testNetwork(0.03, 0.9, 34e-3,
+		freqscan.Shunt{End: freqscan.Sending, C: 1e-6, R: 2},
+		freqscan.Shunt{End: freqscan.Receiving, OnLine: true, L: 1.5, R: 3})
+	e := stepSettings(20e-3, 1e-6)
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := Bergeron(n, e, BergeronOptions{LumpedResistance: true}); err != nil {
 			b.Fatal(err)
 		}
 	}

@@ -55,30 +55,60 @@ func Bergeron(n freqscan.Network, e Energisation, opt BergeronOptions) (*Wavefor
 	if n.Source.R < 0 || n.Source.L < 0 {
 		return nil, fmt.Errorf("waves: bergeron: source R and L must be >= 0")
 	}
-	// Line pieces: the cascade split at mid-line.
-	type piece struct{ z, tau, r float64 }
-	var pieces []piece
+	cut, err := cutPieces(n, e.Omega)
+	if err != nil {
+		return nil, err
+	}
+	st, err := chooseStep(cut.pieces, e)
+	if err != nil {
+		return nil, err
+	}
+	bn, err := newBergeronNet(n, e, opt, cut, st.dt)
+	if err != nil {
+		return nil, err
+	}
+	wf := bn.run(n, e, st.dt)
+	wf.Notes = bergeronNotes(n, opt, cut.pieces, st)
+	if !finite(wf.Sending, wf.Receiving, wf.Middle) || !junctionsFinite(wf.Junctions) {
+		return nil, fmt.Errorf("waves: bergeron: non-finite result (time step too coarse for the network?)")
+	}
+	return wf, nil
+}
+
+// piece is one lossless line piece: surge impedance (ohm), travel time (s) and
+// series resistance (ohm) at the system frequency.
+type piece struct{ z, tau, r float64 }
+
+// pieceCut is the line cut into pieces at mid-line and at every junction of sections.
+type pieceCut struct {
+	pieces   []piece
+	mid      int   // index of the first piece after mid-line (its sending junction is mid-line)
+	junction []int // the junction index of each junction of sections
+}
+
+// cutPieces splits the cascade at mid-line, so the mid-line voltage is a node.
+func cutPieces(n freqscan.Network, omega float64) (pieceCut, error) {
+	var c pieceCut
 	half := n.Line.Length() / 2
 	pos := 0.0
-	midPiece := -1         // index of the first piece after mid-line
-	var junctionNode []int // the node of each junction of sections
+	c.mid = -1
 	for i, l := range n.Line {
-		zc, v := l.Lossless(e.Omega)
+		zc, v := l.Lossless(omega)
 		if !(zc > 0) || !(v > 0) || !(l.Length > 0) {
-			return nil, fmt.Errorf("waves: bergeron: section %d needs length, inductance and capacitance > 0", i+1)
+			return c, fmt.Errorf("waves: bergeron: section %d needs length, inductance and capacitance > 0", i+1)
 		}
-		zr, _ := l.At(complex(0, e.Omega))
+		zr, _ := l.At(complex(0, omega))
 		rPerM := real(zr)
 		add := func(length float64) {
-			pieces = append(pieces, piece{zc, length / v, rPerM * length})
+			c.pieces = append(c.pieces, piece{zc, length / v, rPerM * length})
 		}
 		end := pos + l.Length
-		if midPiece < 0 && end >= half*(1-1e-12) {
+		if c.mid < 0 && end >= half*(1-1e-12) {
 			first := half - pos
 			if first > l.Length*1e-9 {
 				add(first)
 			}
-			midPiece = len(pieces)
+			c.mid = len(c.pieces)
 			if rest := end - half; rest > l.Length*1e-9 {
 				add(rest)
 			}
@@ -87,104 +117,133 @@ func Bergeron(n freqscan.Network, e Energisation, opt BergeronOptions) (*Wavefor
 		}
 		pos = end
 		if i+1 < len(n.Line) {
-			junctionNode = append(junctionNode, len(pieces))
+			c.junction = append(c.junction, len(c.pieces))
 		}
 	}
-	tauMin := math.Inf(1)
+	return c, nil
+}
+
+// stepChoice is the time step and whether the histories need interpolation.
+type stepChoice struct {
+	dt, tauMin float64
+	exact      bool    // every travel time a whole number of steps
+	worstFrac  float64 // the largest fraction of a step interpolated in a history
+}
+
+// chooseStep returns e.TimeStep, or a fiftieth of the shortest piece's round trip.
+func chooseStep(pieces []piece, e Energisation) (stepChoice, error) {
+	c := stepChoice{tauMin: math.Inf(1), exact: true}
 	for _, p := range pieces {
-		tauMin = math.Min(tauMin, p.tau)
+		c.tauMin = math.Min(c.tauMin, p.tau)
 	}
-	dt := e.TimeStep
-	if dt == 0 {
-		dt = defaultStep(2*tauMin, e.Duration) // a fiftieth of the shortest piece
+	c.dt = e.TimeStep
+	if c.dt == 0 {
+		c.dt = defaultStep(2*c.tauMin, e.Duration) // a fiftieth of the shortest piece
 	}
-	if dt > tauMin {
-		return nil, fmt.Errorf("%w: bergeron: time step %.4g µs exceeds the shortest travel time %.4g µs", ErrSettings, dt*1e6, tauMin*1e6)
+	if c.dt > c.tauMin {
+		return c, fmt.Errorf("%w: bergeron: time step %.4g µs exceeds the shortest travel time %.4g µs", ErrSettings, c.dt*1e6, c.tauMin*1e6)
 	}
-	exact := true
-	worstFrac := 0.0 // the largest fraction of a step interpolated in a history
 	for _, p := range pieces {
-		k := p.tau / dt
+		k := p.tau / c.dt
 		f := k - math.Floor(k)
 		if math.Abs(k-math.Round(k)) > 1e-6 {
-			exact = false
-			worstFrac = math.Max(worstFrac, math.Min(f, 1-f))
+			c.exact = false
+			c.worstFrac = math.Max(c.worstFrac, math.Min(f, 1-f))
 		}
 	}
+	return c, nil
+}
 
-	// Nodes: junction j (0 = sending, len(pieces) = receiving) and, with lumped
-	// resistance, the two line-side nodes of each piece.
+// bergeronNet is the single-phase network of Bergeron on the nodal engine: the
+// junctions 0 (sending) to len(pieces) (receiving) and, with lumped resistance, the
+// two line-side nodes of each piece; the line pieces, the source behind its R-L (none
+// for an ideal source: the sending node is held at the EMF) and the shunts.
+type bergeronNet struct {
+	cut             pieceCut
+	lines           []*linePiece
+	src             *emfBranch // nil: ideal source
+	shunts          []*companion
+	onLine          []bool // per shunt: line-connected
+	send, recv, mid int
+	*nodal
+	tp *topology
+}
+
+// newBergeronNet builds the nodes and elements, stamps and factorises the network
+// and sets the state at t = 0+.
+func newBergeronNet(n freqscan.Network, e Energisation, opt BergeronOptions, cut pieceCut, dt float64) (*bergeronNet, error) {
+	pieces := cut.pieces
 	nj := len(pieces) + 1
-	nodeA := make([]int, len(pieces))
-	nodeB := make([]int, len(pieces))
+	bn := &bergeronNet{cut: cut, send: 0, recv: nj - 1, mid: cut.mid}
 	nn := nj
-	for k := range pieces {
-		if opt.LumpedResistance && pieces[k].r > 0 {
-			nodeA[k], nodeB[k] = nn, nn+1
-			nn += 2
-		} else {
-			nodeA[k], nodeB[k] = k, k+1
-		}
+	ring := 0
+	for _, p := range pieces {
+		ring = max(ring, int(math.Ceil(p.tau/dt))+2)
 	}
-	send, recv, mid := 0, nj-1, midPiece
-	G := make([][]float64, nn)
-	for i := range G {
-		G[i] = make([]float64, nn)
-	}
-	stamp := func(a, b int, g float64) {
-		G[a][a] += g
-		if b >= 0 {
-			G[b][b] += g
-			G[a][b] -= g
-			G[b][a] -= g
-		}
-	}
+	ring++
+	var elems []element
 	for k, p := range pieces {
-		stamp(nodeA[k], -1, 1/p.z)
-		stamp(nodeB[k], -1, 1/p.z)
-		if nodeA[k] != k { // r/2 between each junction and the piece's end
-			stamp(k, nodeA[k], 2/p.r)
-			stamp(k+1, nodeB[k], 2/p.r)
+		lp := &linePiece{piece: p, ja: k, jb: k + 1, a: k, b: k + 1, lag: p.tau / dt, v0: e.TrappedPU}
+		if opt.LumpedResistance && p.r > 0 {
+			lp.a, lp.b = nn, nn+1
+			nn += 2
 		}
+		lp.hist(ring)
+		bn.lines = append(bn.lines, lp)
+		elems = append(elems, lp)
 	}
-
-	// Companion branches.
-	v0 := e.TrappedPU
-	var branches []*branch
-	ideal := n.Source.Ideal()
-	var src *branch
-	if !ideal {
-		src = newBranch(n.Source.R, n.Source.L, 0, dt)
-		G[send][send] += src.g
+	if !n.Source.Ideal() {
+		bn.src = &emfBranch{companion: newCompanion(bn.send, -1, n.Source.R, n.Source.L, 0, dt)}
+		elems = append(elems, bn.src)
 	}
 	for _, sh := range n.Shunts {
 		if sh.End == freqscan.Receiving && !sh.OnLine {
 			continue
 		}
-		node := send
+		node := bn.send
 		if sh.End == freqscan.Receiving {
-			node = recv
+			node = bn.recv
 		}
-		b := newBranch(sh.R, sh.L, sh.C, dt)
-		b.node, b.onLine = node, sh.OnLine
-		branches = append(branches, b)
-		G[node][node] += b.g
+		b := newCompanion(node, -1, sh.R, sh.L, sh.C, dt)
+		bn.shunts = append(bn.shunts, &b)
+		bn.onLine = append(bn.onLine, sh.OnLine)
+		elems = append(elems, &b)
 	}
-	// The state at t = 0+ (step 0). Before closing the source side is in its steady
-	// state (sine) or at rest (step): the bus voltage, the source current and the
-	// bus shunts' currents and capacitor voltages follow from phasors.
+	g := newMatrix(nn)
+	for _, el := range elems {
+		el.stamp(g)
+	}
+	join, known := make([]int, nn), make([]int, nn)
+	for i := range join {
+		join[i], known[i] = i, -1
+	}
+	if bn.src == nil {
+		known[bn.send] = 0 // held at the EMF
+	}
+	tp, err := newTopology(g, join, known, luFactorise)
+	if err != nil {
+		return nil, fmt.Errorf("waves: bergeron: %v", err)
+	}
+	bn.tp = tp
+	bn.nodal = newNodal(nn, elems)
+	bn.initialise(n, e)
+	return bn, nil
+}
+
+// initialise sets the state at t = 0+ (step 0). Before closing the source side is in
+// its steady state (sine) or at rest (step): the bus voltage, the source current and
+// the bus shunts' currents and capacitor voltages follow from phasors. The line is at
+// rest at the trapped voltage but for the surge the closing launches into the first
+// piece.
+func (bn *bergeronNet) initialise(n freqscan.Network, e Energisation) {
+	v0 := e.TrappedPU
 	phi := e.CloseDeg * math.Pi / 180
-	emf := func(t float64) float64 {
-		if e.Excitation == Sine {
-			return math.Sin(e.Omega*t + phi)
-		}
-		return 1
-	}
+	emf0 := e.emf(0)
 	vbus0, isrc0 := 0.0, 0.0 // bus voltage and source current just before closing
 	s := complex(0, e.Omega)
 	var ybus complex128
-	for _, b := range branches {
-		if b.node == send && !b.onLine {
+	for bi, b := range bn.shunts {
+		if b.a == bn.send && !bn.onLine[bi] {
 			ybus += b.admittance(s)
 		}
 	}
@@ -195,347 +254,240 @@ func Bergeron(n freqscan.Network, e Energisation, opt BergeronOptions) (*Wavefor
 	if e.Excitation == Sine {
 		vbus0, isrc0 = inst(vbus), inst(vbus*ybus)
 	}
-	z1 := pieces[0].z // the first piece seen from the sending node at 0+
-	if nodeA[0] != 0 {
-		z1 += pieces[0].r / 2
+	first := bn.lines[0]
+	z1 := first.z // the first piece seen from the sending node at 0+
+	if first.a != first.ja {
+		z1 += first.r / 2
 	}
 	// Branch states just before closing: inductor currents and capacitor voltages,
 	// which stay continuous through the closing.
-	for _, b := range branches {
+	for bi, b := range bn.shunts {
 		switch {
-		case b.node == send && !b.onLine:
+		case b.a == bn.send && !bn.onLine[bi]:
 			if e.Excitation == Sine {
-				b.iPrev = inst(vbus * b.admittance(s))
-				if b.cap > 0 && b.l <= 0 {
-					b.vc = vbus0 - b.r*b.iPrev // capacitor voltage = v − R·i
+				b.i = inst(vbus * b.admittance(s))
+				if b.isRC() {
+					b.vc = vbus0 - b.r*b.i // capacitor voltage = v − R·i
 				}
 			}
-		case b.onLine: // no current at closing, capacitors at the trapped voltage
-			b.iPrev = 0
-			if b.cap > 0 && b.l <= 0 {
+		case bn.onLine[bi]: // no current at closing, capacitors at the trapped voltage
+			b.i = 0
+			if b.isRC() {
 				b.vc = v0
 			}
 		}
 	}
-	// The sending node at 0+ is a resistive network: the EMF behind a resistive
-	// source (or held by an ideal one), the line at V0 behind Z1, capacitors at their
-	// voltage behind their resistance, inductors as their continuous currents. A
-	// capacitor without resistance holds the node (capacitance-weighted when several).
-	isCap := func(b *branch) bool { return b.cap > 0 && b.l <= 0 }
-	var vs0, gSum, iSum, stiffC, stiffQ float64
-	gSum, iSum = 1/z1, v0/z1
-	if src != nil {
-		if n.Source.L > 0 {
-			iSum += isrc0
-		} else {
-			gSum += 1 / n.Source.R
-			iSum += emf(0) / n.Source.R
-		}
-	}
-	for _, b := range branches {
-		if b.node != send {
-			continue
-		}
-		switch {
-		case isCap(b) && b.r == 0:
-			stiffC += b.cap
-			stiffQ += b.cap * b.vc
-		case isCap(b):
-			gSum += 1 / b.r
-			iSum += b.vc / b.r
-		default:
-			iSum -= b.iPrev
-		}
-	}
-	switch {
-	case ideal:
-		vs0 = emf(0)
-	case stiffC > 0:
-		vs0 = stiffQ / stiffC
-	default:
-		vs0 = iSum / gSum
-	}
-	if src != nil {
-		src.vPrev, src.iPrev = emf(0)-vs0, isrc0
+	vs0, stiffC := bn.sendingAt0(n, v0, z1, emf0, isrc0)
+	if bn.src != nil {
+		bn.src.v, bn.src.i = emf0-vs0, isrc0
 		if n.Source.L == 0 {
-			src.iPrev = (emf(0) - vs0) / n.Source.R
+			bn.src.i = (emf0 - vs0) / n.Source.R
 		}
 	}
 	// Branch voltages at 0+, resistive capacitor currents, and what the rest of the
 	// node leaves the capacitors without resistance (shared by capacitance).
 	i0 := (vs0 - v0) / z1 // the first surge into the line
 	residual := -i0
-	if src != nil {
-		residual += src.iPrev
+	if bn.src != nil {
+		residual += bn.src.i
 	}
-	for _, b := range branches {
-		b.vPrev = v0
-		if b.node == send {
-			b.vPrev = vs0
+	for _, b := range bn.shunts {
+		b.v = v0
+		if b.a == bn.send {
+			b.v = vs0
 		}
-		if isCap(b) && b.r > 0 {
-			b.iPrev = (b.vPrev - b.vc) / b.r
+		if b.isRC() && b.r > 0 {
+			b.i = (b.v - b.vc) / b.r
 		}
-		if b.node == send && !(isCap(b) && b.r == 0) {
-			residual -= b.iPrev
-		}
-	}
-	for _, b := range branches {
-		if b.node == send && isCap(b) && b.r == 0 {
-			b.iPrev = residual * b.cap / stiffC
+		if b.a == bn.send && !(b.isRC() && b.r == 0) {
+			residual -= b.i
 		}
 	}
-	var colSend []float64 // the sending node's column, moved to the right-hand side for an ideal source
-	if ideal {
-		colSend = make([]float64, nn)
-		for i := range G {
-			colSend[i], G[i][send] = G[i][send], 0
-			G[send][i] = 0
+	for _, b := range bn.shunts {
+		if b.a == bn.send && b.isRC() && b.r == 0 {
+			b.i = residual * b.c / stiffC
 		}
-		G[send][send], colSend[send] = 1, 0
 	}
-	lu, err := factor(G)
-	if err != nil {
-		return nil, fmt.Errorf("waves: bergeron: %v", err)
+	for _, lp := range bn.lines { // the line at rest at the trapped voltage at t = 0+ ...
+		lp.va[0], lp.vb[0] = v0, v0
 	}
-	// Histories of the line pieces: v and i (into the piece) at each end, one ring per end.
+	// ... but for the surge the closing launches into the first piece.
+	first.va[0], first.ia[0] = v0+i0*first.z, i0
+	bn.v[bn.send], bn.v[bn.recv], bn.v[bn.mid] = vs0, v0, v0
+}
+
+// sendingAt0 returns the sending node's voltage at 0+ and the capacitance of the
+// capacitors without resistance there. The node is then a resistive network: the
+// EMF behind a resistive source (or held by an ideal one), the line at V0 behind Z1,
+// capacitors at their voltage behind their resistance, inductors as their continuous
+// currents. A capacitor without resistance holds the node (capacitance-weighted when
+// several).
+func (bn *bergeronNet) sendingAt0(n freqscan.Network, v0, z1, emf0, isrc0 float64) (vs0, stiffC float64) {
+	var gSum, iSum, stiffQ float64
+	gSum, iSum = 1/z1, v0/z1
+	if bn.src != nil {
+		if n.Source.L > 0 {
+			iSum += isrc0
+		} else {
+			gSum += 1 / n.Source.R
+			iSum += emf0 / n.Source.R
+		}
+	}
+	for _, b := range bn.shunts {
+		if b.a != bn.send {
+			continue
+		}
+		switch {
+		case b.isRC() && b.r == 0:
+			stiffC += b.c
+			stiffQ += b.c * b.vc
+		case b.isRC():
+			gSum += 1 / b.r
+			iSum += b.vc / b.r
+		default:
+			iSum -= b.i
+		}
+	}
+	switch {
+	case bn.src == nil:
+		vs0 = emf0
+	case stiffC > 0:
+		vs0 = stiffQ / stiffC
+	default:
+		vs0 = iSum / gSum
+	}
+	return vs0, stiffC
+}
+
+// run steps the network from t = 0+ to the end of e.Duration: inject, solve, update.
+func (bn *bergeronNet) run(n freqscan.Network, e Energisation, dt float64) *Waveform {
 	steps := samples(e.Duration, dt)
-	maxLag := 0
-	for _, p := range pieces {
-		maxLag = max(maxLag, int(math.Ceil(p.tau/dt))+2)
-	}
-	ringLen := maxLag + 1
-	type hist struct{ v, i []float64 }
-	newHist := func() hist { return hist{make([]float64, ringLen), make([]float64, ringLen)} }
-	ha := make([]hist, len(pieces))
-	hb := make([]hist, len(pieces))
-	for k := range pieces {
-		ha[k], hb[k] = newHist(), newHist()
-	}
+	v0 := e.TrappedPU
 	wf := &Waveform{Method: "bergeron", Step: dt, Sending: make([]float64, steps), Receiving: make([]float64, steps), Middle: make([]float64, steps)}
-	rhs := make([]float64, nn)
-	v := make([]float64, nn)
-	// The rings hold step m at m % ringLen; steps before 0 are the initial state.
-	interp := func(h []float64, nstep int, lag float64, init float64) float64 {
-		l0 := int(math.Floor(lag + 1e-9))
-		f := lag - float64(l0)
-		if f < 1e-9 {
-			f = 0
-		}
-		val := func(m int) float64 {
-			if m < 0 {
-				return init
-			}
-			return h[m%ringLen]
-		}
-		a := val(nstep - l0)
-		if f == 0 {
-			return a
-		}
-		return a*(1-f) + val(nstep-l0-1)*f
-	}
-	ihA := make([]float64, len(pieces))
-	ihB := make([]float64, len(pieces))
 	names, xs := junctionNames(n)
 	for i, name := range names {
 		j := JunctionWave{Name: name, X: xs[i], V: make([]float64, steps)}
 		j.V[0] = v0
 		wf.Junctions = append(wf.Junctions, j)
 	}
-	wf.Sending[0], wf.Receiving[0], wf.Middle[0] = vs0, v0, v0
-	for k := range pieces { // the line at rest at the trapped voltage at t = 0+ ...
-		ha[k].v[0], hb[k].v[0] = v0, v0
-	}
-	// ... but for the surge the closing launches into the first piece.
-	ha[0].v[0], ha[0].i[0] = v0+i0*pieces[0].z, i0
+	wf.Sending[0], wf.Receiving[0], wf.Middle[0] = bn.v[bn.send], v0, v0
 	for nstep := 1; nstep < steps; nstep++ {
-		t := float64(nstep) * dt
-		for i := range rhs {
-			rhs[i] = 0
-		}
-		for k, p := range pieces {
-			lag := p.tau / dt
-			ihA[k] = -interp(hb[k].v, nstep, lag, v0)/p.z - interp(hb[k].i, nstep, lag, 0)
-			ihB[k] = -interp(ha[k].v, nstep, lag, v0)/p.z - interp(ha[k].i, nstep, lag, 0)
-			rhs[nodeA[k]] -= ihA[k]
-			rhs[nodeB[k]] -= ihB[k]
-		}
-		et := emf(t)
-		if src != nil {
-			src.history()
-			rhs[send] += src.g*et + src.h
-		}
-		for _, b := range branches {
-			b.history()
-			rhs[b.node] -= b.h
-		}
-		if ideal { // sending node held at the EMF
-			for i := range rhs {
-				rhs[i] -= colSend[i] * et
-			}
-			rhs[send] = et
-		}
-		lu.solve(rhs, v)
-		for k, p := range pieces {
-			ia := v[nodeA[k]]/p.z + ihA[k]
-			ib := v[nodeB[k]]/p.z + ihB[k]
-			slot := nstep % ringLen
-			ha[k].v[slot], ha[k].i[slot] = v[nodeA[k]], ia
-			hb[k].v[slot], hb[k].i[slot] = v[nodeB[k]], ib
-		}
-		if src != nil {
-			src.update(et - v[send])
-		}
-		for _, b := range branches {
-			b.update(v[b.node])
-		}
-		wf.Sending[nstep] = v[send]
-		wf.Receiving[nstep] = v[recv]
-		wf.Middle[nstep] = v[mid]
-		for i, node := range junctionNode {
-			wf.Junctions[i].V[nstep] = v[node]
+		d := drive{e.emf(float64(nstep) * dt)}
+		bn.inject(d)
+		_ = bn.solve(bn.tp, d, nil) // linear: cannot fail
+		bn.update(d)
+		wf.Sending[nstep] = bn.v[bn.send]
+		wf.Receiving[nstep] = bn.v[bn.recv]
+		wf.Middle[nstep] = bn.v[bn.mid]
+		for i, node := range bn.cut.junction {
+			wf.Junctions[i].V[nstep] = bn.v[node]
 		}
 	}
+	return wf
+}
+
+// bergeronNotes describes the model of a Bergeron waveform.
+func bergeronNotes(n freqscan.Network, opt BergeronOptions, pieces []piece, st stepChoice) []string {
+	dt := st.dt
 	note := fmt.Sprintf("Bergeron, lossless line pieces (half-line travel time %.4g µs), trapezoidal lumped elements, time step %.4g µs", pieces[0].tau*1e6, dt*1e6)
 	if len(n.Line) > 1 {
-		note = fmt.Sprintf("Bergeron, %d lossless line pieces (%d sections, each its own surge impedance and travel time; shortest piece %.4g µs), trapezoidal lumped elements, time step %.4g µs", len(pieces), len(n.Line), tauMin*1e6, dt*1e6)
+		note = fmt.Sprintf("Bergeron, %d lossless line pieces (%d sections, each its own surge impedance and travel time; shortest piece %.4g µs), trapezoidal lumped elements, time step %.4g µs", len(pieces), len(n.Line), st.tauMin*1e6, dt*1e6)
 	}
-	if exact {
+	if st.exact {
 		note += " (travel times are whole multiples of the step: no interpolation)"
 	} else {
-		note += fmt.Sprintf(" (histories interpolated linearly, up to %.2f of a step: each wavefront is smoothed over one step, %.4g µs, at each transit; the timing of every front is exact)", worstFrac, dt*1e6)
+		note += fmt.Sprintf(" (histories interpolated linearly, up to %.2f of a step: each wavefront is smoothed over one step, %.4g µs, at each transit; the timing of every front is exact)", st.worstFrac, dt*1e6)
 	}
-	wf.Notes = append(wf.Notes, note)
-	if opt.LumpedResistance && len(n.Line) > 1 {
-		wf.Notes = append(wf.Notes, "line resistance lumped half at each end of each line piece (frequency-independent, at the system frequency)")
-	} else if opt.LumpedResistance {
-		wf.Notes = append(wf.Notes, "line resistance lumped R/4, R/2, R/4 at ends and middle (frequency-independent, at the system frequency)")
-	} else {
-		wf.Notes = append(wf.Notes, "line resistance neglected (lossless line)")
-	}
-	wf.Notes = append(wf.Notes, "trapezoidal rule: error O(Δt²) for smooth parts; may ring at a current discontinuity in an inductor")
-	if !finite(wf.Sending, wf.Receiving, wf.Middle) || !junctionsFinite(wf.Junctions) {
-		return nil, fmt.Errorf("waves: bergeron: non-finite result (time step too coarse for the network?)")
-	}
-	return wf, nil
-}
-
-// branch is a trapezoidal companion model of a series R-L or R-C branch (or a
-// resistor): i = g·v + h, with h from the previous step.
-type branch struct {
-	r, l, cap, dt float64
-	g, h          float64
-	node          int
-	onLine        bool
-	vPrev, iPrev  float64 // branch voltage and current at the previous step
-	vc            float64 // capacitor voltage at the previous step (R-C)
-}
-
-func newBranch(r, l, c, dt float64) *branch {
-	b := &branch{r: r, l: l, cap: c, dt: dt}
+	notes := []string{note}
 	switch {
-	case l > 0:
-		b.g = 1 / (r + 2*l/dt)
-	case c > 0:
-		b.g = 1 / (r + dt/(2*c))
+	case opt.LumpedResistance && len(n.Line) > 1:
+		notes = append(notes, "line resistance lumped half at each end of each line piece (frequency-independent, at the system frequency)")
+	case opt.LumpedResistance:
+		notes = append(notes, "line resistance lumped R/4, R/2, R/4 at ends and middle (frequency-independent, at the system frequency)")
 	default:
-		b.g = 1 / r
+		notes = append(notes, "line resistance neglected (lossless line)")
 	}
-	return b
+	return append(notes, "trapezoidal rule: error O(Δt²) for smooth parts; may ring at a current discontinuity in an inductor")
 }
 
-// admittance returns the branch admittance at s (S).
-func (b *branch) admittance(s complex128) complex128 {
-	switch {
-	case b.l > 0:
-		return 1 / (complex(b.r, 0) + s*complex(b.l, 0))
-	case b.cap > 0:
-		sc := s * complex(b.cap, 0)
-		return sc / (1 + sc*complex(b.r, 0))
-	}
-	return complex(1/b.r, 0)
+// emfBranch is a companion branch from an EMF (drive element 0) to node a (b < 0):
+// i = g·(e − v_a) + h into the node.
+type emfBranch struct{ companion }
+
+func (s *emfBranch) inject(j []float64, e drive) {
+	s.history()
+	j[s.a] += s.g*e[0] + s.h
 }
 
-// history sets h for the coming step from the previous one:
+func (s *emfBranch) update(v []float64, e drive) { s.step(e[0] - v[s.a]) }
+
+// linePiece is a lossless Bergeron line piece between the line-side nodes a and b
+// (current into the piece at each end),
 //
-//	R-L:  h = g·(v' + (2L/Δt − R)·i')
-//	R-C:  h = −g·(vC' + Δt/(2C)·i')
-func (b *branch) history() {
-	switch {
-	case b.l > 0:
-		b.h = b.g * (b.vPrev + (2*b.l/b.dt-b.r)*b.iPrev)
-	case b.cap > 0:
-		b.h = -b.g * (b.vc + b.dt/(2*b.cap)*b.iPrev)
-	default:
-		b.h = 0
+//	i_a(t) = v_a(t)/Z + I_a(t),  I_a(t) = −v_b(t−τ)/Z − i_b(t−τ)
+//
+// with the delayed values interpolated linearly between steps (steps before 0 are at
+// v0 with no current). With lumped resistance a and b are nodes of their own, joined
+// to the junctions ja and jb through R/2 each.
+type linePiece struct {
+	piece
+	ja, jb, a, b   int
+	lag            float64 // τ/Δt
+	l0             int     // whole steps of the lag
+	f              float64 // the fraction of a step interpolated, 0 when within 1e-9 of whole
+	v0             float64
+	va, ia, vb, ib []float64 // rings: step m at m % len
+	n              int       // the step being computed
+	ihA, ihB       float64   // history currents of step n
+}
+
+// hist makes the piece's history rings of length ring, step 0 to come.
+func (p *linePiece) hist(ring int) {
+	p.va, p.ia = make([]float64, ring), make([]float64, ring)
+	p.vb, p.ib = make([]float64, ring), make([]float64, ring)
+	p.n = 1
+	p.l0 = int(math.Floor(p.lag + 1e-9))
+	p.f = p.lag - float64(p.l0)
+	if p.f < 1e-9 {
+		p.f = 0
 	}
 }
 
-// update records the step's branch voltage v and the resulting current.
-func (b *branch) update(v float64) {
-	i := b.g*v + b.h
-	if b.l <= 0 && b.cap > 0 {
-		b.vc += b.dt / (2 * b.cap) * (i + b.iPrev)
+func (p *linePiece) stamp(g [][]float64) {
+	stampConductance(g, p.a, -1, 1/p.z)
+	stampConductance(g, p.b, -1, 1/p.z)
+	if p.a != p.ja { // r/2 between each junction and the piece's end
+		stampConductance(g, p.ja, p.a, 2/p.r)
+		stampConductance(g, p.jb, p.b, 2/p.r)
 	}
-	b.vPrev, b.iPrev = v, i
 }
 
-// denseLU is an LU factorisation with partial pivoting of a small dense matrix.
-type denseLU struct {
-	a   [][]float64
-	piv []int
-	tmp []float64
+// delayed returns the ring h at step n − lag, linearly interpolated, init before step 0.
+func (p *linePiece) delayed(h []float64, init float64) float64 {
+	a := init
+	if m := p.n - p.l0; m >= 0 {
+		a = h[m%len(h)]
+	}
+	if p.f == 0 {
+		return a
+	}
+	b := init
+	if m := p.n - p.l0 - 1; m >= 0 {
+		b = h[m%len(h)]
+	}
+	return a*(1-p.f) + b*p.f
 }
 
-func factor(m [][]float64) (*denseLU, error) {
-	n := len(m)
-	a := make([][]float64, n)
-	for i := range m {
-		a[i] = append([]float64(nil), m[i]...)
-	}
-	piv := make([]int, n)
-	for i := range piv {
-		piv[i] = i
-	}
-	for k := 0; k < n; k++ {
-		p := k
-		for i := k + 1; i < n; i++ {
-			if math.Abs(a[i][k]) > math.Abs(a[p][k]) {
-				p = i
-			}
-		}
-		if a[p][k] == 0 || math.IsNaN(a[p][k]) {
-			return nil, fmt.Errorf("singular nodal matrix")
-		}
-		a[k], a[p] = a[p], a[k]
-		piv[k], piv[p] = piv[p], piv[k]
-		for i := k + 1; i < n; i++ {
-			f := a[i][k] / a[k][k]
-			a[i][k] = f
-			for j := k + 1; j < n; j++ {
-				a[i][j] -= f * a[k][j]
-			}
-		}
-	}
-	return &denseLU{a: a, piv: piv, tmp: make([]float64, n)}, nil
+func (p *linePiece) inject(j []float64, _ drive) {
+	p.ihA = -p.delayed(p.vb, p.v0)/p.z - p.delayed(p.ib, 0)
+	p.ihB = -p.delayed(p.va, p.v0)/p.z - p.delayed(p.ia, 0)
+	j[p.a] -= p.ihA
+	j[p.b] -= p.ihB
 }
 
-// solve solves A x = b into x.
-func (lu *denseLU) solve(b, x []float64) {
-	n := len(b)
-	y := lu.tmp
-	for i := 0; i < n; i++ {
-		s := b[lu.piv[i]]
-		for j := 0; j < i; j++ {
-			s -= lu.a[i][j] * y[j]
-		}
-		y[i] = s
-	}
-	for i := n - 1; i >= 0; i-- {
-		s := y[i]
-		for j := i + 1; j < n; j++ {
-			s -= lu.a[i][j] * x[j]
-		}
-		x[i] = s / lu.a[i][i]
-	}
+func (p *linePiece) update(v []float64, _ drive) {
+	slot := p.n % len(p.va)
+	p.va[slot], p.ia[slot] = v[p.a], v[p.a]/p.z+p.ihA
+	p.vb[slot], p.ib[slot] = v[p.b], v[p.b]/p.z+p.ihB
+	p.n++
 }

@@ -1,6 +1,7 @@
 package waves
 
 import (
+	"fmt"
 	"math"
 )
 
@@ -59,19 +60,21 @@ func (rd *ringDown) stepAt(t, dt float64) int {
 
 // stateAt returns a copy of the line's state after ring step n (the source side at
 // rest; the shot sets it).
-func (rd *ringDown) stateAt(sim *SwitchingSimulator, n int) *shotState {
+func (rd *ringDown) stateAt(sim *SwitchingSimulator, n int) (*shotState, error) {
 	var st *shotState
 	at := 0
 	if len(rd.snaps) > 0 && n >= rd.lo {
 		i := min((n-rd.lo)/rd.every, len(rd.snaps)-1)
-		st, at = rd.snaps[i].clone(), rd.lo+i*rd.every
+		st, at = rd.snaps[i].clone(sim.ideal), rd.lo+i*rd.every
 	} else {
 		st = sim.openingState(sim.trappedV())
 	}
 	for ; at < n; at++ {
-		sim.advance(st, sim.topo[0], [3]float64{})
+		if err := sim.advance(st, sim.topo[0], [3]float64{}); err != nil {
+			return nil, fmt.Errorf("at %.6g ms after the opening: %w", float64(at+1)*sim.dt*1e3, err)
+		}
 	}
-	return st
+	return st, nil
 }
 
 // sample returns the sending-end line voltage (pu) of phase k after ring step n.
@@ -87,7 +90,7 @@ const ringSampleSpan = 0.05
 // newRingDown simulates the de-energised line from the opening through the dead time
 // and past it to the latest first contact any shot can have: [minT, maxT] (s, from
 // the mean closing instant) bounds the first contacts.
-func newRingDown(sim *SwitchingSimulator, minT, maxT float64) *ringDown {
+func newRingDown(sim *SwitchingSimulator, minT, maxT float64) (*ringDown, error) {
 	dt := sim.dt
 	rd := &ringDown{sim: sim, nCmd: int(math.Round(sim.set.DeadTime / dt))}
 	rd.lo = max(0, int(math.Floor(minT/dt))+rd.nCmd-2)
@@ -103,7 +106,9 @@ func newRingDown(sim *SwitchingSimulator, minT, maxT float64) *ringDown {
 	base := sim.net.EMFPeak
 	for n := 0; ; n++ {
 		if n > 0 {
-			sim.advance(st, sim.topo[0], [3]float64{})
+			if err := sim.advance(st, sim.topo[0], [3]float64{}); err != nil {
+				return nil, fmt.Errorf("waves: switching: the dead time's ring-down at %.6g ms after the opening: %w (check the arresters' V-I tables, or try a smaller time step)", float64(n)*dt*1e3, err)
+			}
 		}
 		if n >= rd.s0 {
 			for k := 0; k < 3; k++ {
@@ -112,7 +117,7 @@ func newRingDown(sim *SwitchingSimulator, minT, maxT float64) *ringDown {
 			}
 		}
 		if n >= rd.lo && (n-rd.lo)%rd.every == 0 {
-			rd.snaps = append(rd.snaps, st.clone())
+			rd.snaps = append(rd.snaps, st.clone(sim.ideal))
 		}
 		if n == rd.nCmd {
 			for _, br := range st.branches {
@@ -130,7 +135,7 @@ func newRingDown(sim *SwitchingSimulator, minT, maxT float64) *ringDown {
 			break
 		}
 	}
-	return rd
+	return rd, nil
 }
 
 // RingDown is the state of the de-energised line at the mean closing instant, after

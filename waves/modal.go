@@ -159,6 +159,8 @@ func (ml ModalLine) minTau() float64 {
 //   - H. W. Dommel, EMTP Theory Book, Bonneville Power Administration (1986), §4.2.2
 //     (lumped-resistance approximation); from memory.
 type modalBergeron struct {
+	ends  [2][3]int  // nodes of phases a, b, c at the sending (0) and receiving (1) end
+	gl    [3]float64 // shunt conductance G/2 per mode at each end, S
 	z, h  [3]float64
 	delay [3]int     // whole steps of τ
 	frac  [3]float64 // fractional step of τ
@@ -166,12 +168,17 @@ type modalBergeron struct {
 	// ring buffers per mode: voltage and current at the sending (0) and receiving (1) end
 	v, i [2][3][]float64
 	pos  int // index of the slot for the current step
+	// hs, hr are the modal history currents of the current step at each end.
+	hs, hr [3]float64
 }
 
-func newModalBergeron(sec ModalSection, dt float64, trapped [3]float64) *modalBergeron {
-	b := &modalBergeron{}
+// newModalBergeron returns the section between the nodes ends, at rest at the
+// trapped phase voltages.
+func newModalBergeron(sec ModalSection, dt float64, trapped [3]float64, ends [2][3]int) *modalBergeron {
+	b := &modalBergeron{ends: ends}
 	maxDelay := 0
 	for m := 0; m < 3; m++ {
+		b.gl[m] = sec.G[m] / 2
 		q := sec.R[m] / 4
 		b.z[m] = sec.Zc[m] + q
 		b.h[m] = (sec.Zc[m] - q) / (sec.Zc[m] + q)
@@ -237,4 +244,47 @@ func (b *modalBergeron) clone() *modalBergeron {
 		}
 	}
 	return &c
+}
+
+// stamp adds the section's conductances at both ends: 1/Z per mode and the lumped
+// shunt conductance G/2 per mode.
+func (b *modalBergeron) stamp(g [][]float64) {
+	y := balancedMatrix(1/b.z[0], 1/b.z[1])
+	gl := balancedMatrix(b.gl[0], b.gl[1])
+	for _, nodes := range b.ends {
+		for _, m := range [][3][3]float64{y, gl} {
+			for r := 0; r < 3; r++ {
+				for c := 0; c < 3; c++ {
+					g[nodes[r]][nodes[c]] += m[r][c]
+				}
+			}
+		}
+	}
+}
+
+// inject adds the history currents of the coming step (into the line at each end)
+// as sources drawing from the end nodes.
+func (b *modalBergeron) inject(j []float64, _ drive) {
+	b.hs, b.hr = b.history()
+	ps, pr := toPhase(b.hs), toPhase(b.hr)
+	for k := 0; k < 3; k++ {
+		j[b.ends[0][k]] -= ps[k]
+		j[b.ends[1][k]] -= pr[k]
+	}
+}
+
+// update stores the step's modal end voltages and currents.
+func (b *modalBergeron) update(v []float64, _ drive) {
+	var vs, vr [3]float64
+	for k := 0; k < 3; k++ {
+		vs[k] = v[b.ends[0][k]]
+		vr[k] = v[b.ends[1][k]]
+	}
+	vsm, vrm := toModal(vs), toModal(vr)
+	var is, ir [3]float64
+	for m := 0; m < 3; m++ {
+		is[m] = vsm[m]/b.z[m] + b.hs[m]
+		ir[m] = vrm[m]/b.z[m] + b.hr[m]
+	}
+	b.store(vsm, vrm, is, ir)
 }

@@ -163,7 +163,10 @@ func TestOnePoleClosedAgainstLaplace(t *testing.T) {
 		// A shot whose poles b and c close after the window: the first duration of it
 		// is the one-pole circuit.
 		spec := ShotSpec{CloseDeg: 60, Offset: [3]float64{0, 0.05, 0.05}}
-		_, w := sim.Shot(spec, true)
+		_, w, err := sim.Shot(spec, true)
+		if err != nil {
+			t.Fatal(err)
+		}
 		ref := onePoleLaplace(pos, zero, r, l, x0, rR, lr, tc.lN, 60, duration, sim.Step())
 		pa, _ := Peak(ref[0])
 		for p := 0; p < 3; p++ {

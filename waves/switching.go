@@ -176,62 +176,53 @@ const (
 	poleClosed
 )
 
-// swBranch is a scalar lumped branch between node a and node b (-1 = earth) in its
-// trapezoidal companion form: i = g·v + hist.
-type swBranch struct {
-	a, b    int
-	r, l, c float64
-	g       float64
-	k       float64 // RL: 2L/dt − R; RC: dt/(2C)
-	hist    float64
-	i, v    float64 // current (a→b) and voltage (a−b) of the last step
-	vc      float64 // RC: capacitor voltage
+// switchTopo is the factorised nodal system for one combination of pole states
+// (nodal.go) with the arresters on its unknown nodes (nil: none).
+type switchTopo struct {
+	*topology
+	arr *arresterSet
 }
 
-func newSwBranch(a, b int, r, l, c, dt float64) swBranch {
-	br := swBranch{a: a, b: b, r: r, l: l, c: c}
-	if l > 0 {
-		br.g = 1 / (r + 2*l/dt)
-		br.k = 2*l/dt - r
-	} else if c > 0 {
-		br.k = dt / (2 * c)
-		br.g = 1 / (r + br.k)
-	} else {
-		br.g = 1 / r
-	}
-	return br
+// modalSource is the source's coupled R-L impedance between the phase EMFs and the
+// sending bus, as one companion branch per mode (ground mode scaled by x0/x1): v is
+// the modal EMF minus the bus voltage, i the modal current into the bus.
+type modalSource struct {
+	bus  [3]int
+	mode [3]companion
 }
 
-func (br *swBranch) history() {
-	switch {
-	case br.l > 0:
-		br.hist = br.g * (br.v + br.k*br.i)
-	case br.c > 0:
-		br.hist = -br.g * (br.vc + br.k*br.i)
-	default:
-		br.hist = 0
+func (s *modalSource) stamp(g [][]float64) {
+	m := balancedMatrix(s.mode[0].g, s.mode[1].g)
+	for a := 0; a < 3; a++ {
+		for b := 0; b < 3; b++ {
+			g[s.bus[a]][s.bus[b]] += m[a][b]
+		}
 	}
 }
 
-func (br *swBranch) update(v float64) {
-	i := br.g*v + br.hist
-	if br.c > 0 {
-		br.vc += br.k * (i + br.i)
+// inject adds i = g·e + h per mode (the EMF behind the companion) to the bus nodes.
+func (s *modalSource) inject(j []float64, ek drive) {
+	var hm [3]float64
+	em := toModal(ek)
+	for m := 0; m < 3; m++ {
+		s.mode[m].history()
+		hm[m] = s.mode[m].g*em[m] + s.mode[m].h
 	}
-	br.v, br.i = v, i
+	hp := toPhase(hm)
+	for k := 0; k < 3; k++ {
+		j[s.bus[k]] += hp[k]
+	}
 }
 
-// topology is the factorised nodal system for one combination of pole states.
-type topology struct {
-	nu    int       // unknowns
-	inv   []float64 // nu×nu inverse of G_UU, row-major
-	guk   []float64 // nu×3 coupling to the known EMF-fed bus nodes (ideal source)
-	nodeU []int     // full node → unknown index, -1 known
-	nodeK []int     // full node → known EMF index (0..2), -1 unknown
-	// arresters: unknown indices, their curves, Zth and the inverse's columns
-	arrU   []int
-	arrC   [][]*arresterCurve
-	arrZth []float64 // len(arrU)² row-major
+func (s *modalSource) update(v []float64, ek drive) {
+	var up [3]float64
+	for k := 0; k < 3; k++ {
+		up[k] = ek[k] - v[s.bus[k]]
+	}
+	um := toModal(up)
+	for m := 0; m < 3; m++ {
+		s.mode[m].step(um[m])
+	}
 }
 
 // SwitchingSimulator is the set-up of a switching study for a fixed time step: the
@@ -244,14 +235,13 @@ type SwitchingSimulator struct {
 	dt       float64
 	nNodes   int
 	busNode  [3]int
-	endNode  [][3]int // junction j phase k
-	neutral  [2]int   // node of the star point at each end, -1 none
-	branches []swBranch
-	srcG     [3]float64 // modal source companion conductance (0 for ideal)
-	srcK     [3]float64 // modal 2L/dt − R
+	endNode  [][3]int    // junction j phase k
+	neutral  [2]int      // node of the star point at each end, -1 none
+	branches []companion // lumped shunts and neutral reactors
+	src      modalSource // the source's companions (unused for an ideal source)
 	srcZ     [3]complex128
 	ideal    bool
-	topo     [27]*topology
+	topo     [27]*switchTopo
 	curves   []*arresterCurve
 	ring     *ringDown // the dead time's ring-down; nil without trapped charge or dead time
 }
@@ -325,7 +315,7 @@ func NewSwitchingSimulator(net ThreePhase, s SwitchingSettings) (*SwitchingSimul
 		}
 		sim.neutral[e] = n
 		n++
-		sim.branches = append(sim.branches, newSwBranch(sim.neutral[e], -1, 0, net.NeutralL[e], 0, dt))
+		sim.branches = append(sim.branches, newCompanion(sim.neutral[e], -1, 0, net.NeutralL[e], 0, dt))
 	}
 	sim.nNodes = n
 	for _, sh := range net.Shunts {
@@ -348,7 +338,7 @@ func NewSwitchingSimulator(net ThreePhase, s SwitchingSettings) (*SwitchingSimul
 			to = [3]int{sim.neutral[sh.End], sim.neutral[sh.End], sim.neutral[sh.End]}
 		}
 		for k := 0; k < 3; k++ {
-			sim.branches = append(sim.branches, newSwBranch(nodes[k], to[k], sh.R, sh.L, sh.C, dt))
+			sim.branches = append(sim.branches, newCompanion(nodes[k], to[k], sh.R, sh.L, sh.C, dt))
 		}
 	}
 	// Source: modal companion of the coupled R-L (ground mode scaled by x0/x1).
@@ -360,10 +350,10 @@ func NewSwitchingSimulator(net ThreePhase, s SwitchingSettings) (*SwitchingSimul
 		r, l := f*net.SourceR, f*net.SourceL
 		sim.srcZ[m] = complex(r, net.Omega*l)
 		if !sim.ideal {
-			sim.srcG[m] = 1 / (r + 2*l/dt)
-			sim.srcK[m] = 2*l/dt - r
+			sim.src.mode[m] = newCompanion(-1, -1, r, l, 0, dt)
 		}
 	}
+	sim.src.bus = sim.busNode
 	for _, a := range net.Arresters {
 		c, err := newArresterCurve(a.VI)
 		if err != nil {
@@ -388,7 +378,11 @@ func NewSwitchingSimulator(net ThreePhase, s SwitchingSettings) (*SwitchingSimul
 		if (s.DeadTime+maxT)/dt > MaxSamples {
 			return nil, fmt.Errorf("%w: dead time / time step = %.4g exceeds %d samples", ErrSwitching, (s.DeadTime+maxT)/dt, MaxSamples)
 		}
-		sim.ring = newRingDown(sim, minT, maxT)
+		rd, err := newRingDown(sim, minT, maxT)
+		if err != nil {
+			return nil, err
+		}
+		sim.ring = rd
 	}
 	return sim, nil
 }
@@ -403,38 +397,19 @@ func b2f(b bool) float64 {
 // Step returns the time step in seconds.
 func (sim *SwitchingSimulator) Step() float64 { return sim.dt }
 
-// baseMatrix returns the full nodal conductance matrix without the breaker.
+// baseMatrix returns the full nodal conductance matrix without the breaker, stamped
+// in the order source, line sections, lumped branches.
 func (sim *SwitchingSimulator) baseMatrix() [][]float64 {
-	n := sim.nNodes
-	g := make([][]float64, n)
-	for i := range g {
-		g[i] = make([]float64, n)
-	}
-	stamp3 := func(nodes [3]int, m [3][3]float64) {
-		for a := 0; a < 3; a++ {
-			for b := 0; b < 3; b++ {
-				g[nodes[a]][nodes[b]] += m[a][b]
-			}
-		}
-	}
+	g := newMatrix(sim.nNodes)
 	if !sim.ideal {
-		stamp3(sim.busNode, balancedMatrix(sim.srcG[0], sim.srcG[1]))
+		sim.src.stamp(g)
 	}
-	for j, sec := range sim.net.Line.Sections {
-		y := balancedMatrix(1/(sec.Zc[0]+sec.R[0]/4), 1/(sec.Zc[1]+sec.R[1]/4))
-		gl := balancedMatrix(sec.G[0]/2, sec.G[1]/2)
-		for _, nodes := range [][3]int{sim.endNode[j], sim.endNode[j+1]} {
-			stamp3(nodes, y)
-			stamp3(nodes, gl)
-		}
+	st := sim.openingState([3]float64{})
+	for _, ln := range st.lines {
+		ln.stamp(g)
 	}
-	for _, br := range sim.branches {
-		g[br.a][br.a] += br.g
-		if br.b >= 0 {
-			g[br.b][br.b] += br.g
-			g[br.a][br.b] -= br.g
-			g[br.b][br.a] -= br.g
-		}
+	for bi := range sim.branches {
+		sim.branches[bi].stamp(g)
 	}
 	return g
 }
@@ -448,16 +423,26 @@ func poleStates(code int) (p [3]int) {
 	return p
 }
 
-func (sim *SwitchingSimulator) factorise(base [][]float64, code int) (*topology, error) {
+// factorise returns the nodal system for the pole states of code: each pole open,
+// through its pre-insertion resistor (stamped between the bus and the line end) or
+// closed (the line end joins the bus node); with an ideal source the bus nodes are
+// held at the EMFs. nil for a resistor state without a resistor (never used).
+func (sim *SwitchingSimulator) factorise(base [][]float64, code int) (*switchTopo, error) {
 	n := sim.nNodes
 	ps := poleStates(code)
 	g := make([][]float64, n)
 	for i := range g {
 		g[i] = append([]float64(nil), base[i]...)
 	}
-	cls := make([]int, n)
-	for i := range cls {
-		cls[i] = i
+	join := make([]int, n)
+	known := make([]int, n)
+	for i := range join {
+		join[i], known[i] = i, -1
+	}
+	if sim.ideal {
+		for k, b := range sim.busNode {
+			known[b] = k
+		}
 	}
 	for k := 0; k < 3; k++ {
 		b, l := sim.busNode[k], sim.endNode[0][k]
@@ -466,62 +451,18 @@ func (sim *SwitchingSimulator) factorise(base [][]float64, code int) (*topology,
 			if sim.set.Preinsertion == 0 {
 				return nil, nil // never used without a resistor
 			}
-			y := 1 / sim.set.Preinsertion
-			g[b][b] += y
-			g[l][l] += y
-			g[b][l] -= y
-			g[l][b] -= y
+			stampConductance(g, b, l, 1/sim.set.Preinsertion)
 		case poleClosed:
-			cls[l] = b
+			join[l] = b
 		}
 	}
-	t := &topology{nodeU: make([]int, n), nodeK: make([]int, n)}
-	ux := make([]int, n)
-	for i := range ux {
-		ux[i] = -1
-	}
-	for i := 0; i < n; i++ {
-		t.nodeK[i] = -1
-		c := cls[i]
-		if sim.ideal && c < 3 {
-			t.nodeK[i] = c
-			t.nodeU[i] = -1
-			continue
-		}
-		if ux[c] < 0 {
-			ux[c] = t.nu
-			t.nu++
-		}
-		t.nodeU[i] = ux[c]
-	}
-	nu := t.nu
-	guu := make([][]float64, nu)
-	for i := range guu {
-		guu[i] = make([]float64, nu)
-	}
-	t.guk = make([]float64, nu*3)
-	for a := 0; a < n; a++ {
-		ua := t.nodeU[a]
-		if ua < 0 {
-			continue
-		}
-		for b := 0; b < n; b++ {
-			if g[a][b] == 0 {
-				continue
-			}
-			if ub := t.nodeU[b]; ub >= 0 {
-				guu[ua][ub] += g[a][b]
-			} else {
-				t.guk[ua*3+t.nodeK[b]] += g[a][b]
-			}
-		}
-	}
-	inv, err := invertDense(guu)
+	tp, err := newTopology(g, join, known, invertWith(1e-13))
 	if err != nil {
 		return nil, fmt.Errorf("%w: the nodal matrix is singular for pole states %v (a floating part of the circuit)", ErrSwitching, ps)
 	}
-	t.inv = inv
+	t := &switchTopo{topology: tp}
 	// Arresters on unknown nodes.
+	arr := &arresterSet{inv: tp.f.(*inverse).a, nu: tp.nu, tol: 1e-9 * sim.net.EMFPeak}
 	idx := map[int]int{}
 	nj := len(sim.endNode)
 	for ai, a := range sim.net.Arresters {
@@ -530,102 +471,62 @@ func (sim *SwitchingSimulator) factorise(base [][]float64, code int) (*topology,
 			j = nj - 1
 		}
 		for k := 0; k < 3; k++ {
-			u := t.nodeU[sim.endNode[j][k]]
+			u := tp.nodeU[sim.endNode[j][k]]
 			if u < 0 {
 				continue // held by the ideal source
 			}
 			p, ok := idx[u]
 			if !ok {
-				p = len(t.arrU)
+				p = len(arr.nodes)
 				idx[u] = p
-				t.arrU = append(t.arrU, u)
-				t.arrC = append(t.arrC, nil)
+				arr.nodes = append(arr.nodes, u)
+				arr.curves = append(arr.curves, nil)
 			}
-			t.arrC[p] = append(t.arrC[p], sim.curves[ai])
+			arr.curves[p] = append(arr.curves[p], sim.curves[ai])
 		}
 	}
-	na := len(t.arrU)
-	t.arrZth = make([]float64, na*na)
-	for p, u := range t.arrU {
-		for q, w := range t.arrU {
-			t.arrZth[p*na+q] = inv[u*nu+w]
-		}
+	if len(arr.nodes) > 0 {
+		arr.setZth()
+		t.arr = arr
 	}
 	return t, nil
 }
 
-// invertDense returns the inverse of the square matrix a (row-major result) by
-// Gauss-Jordan elimination with partial pivoting.
-func invertDense(a [][]float64) ([]float64, error) {
-	n := len(a)
-	m := make([][]float64, n)
-	for i := range m {
-		m[i] = make([]float64, 2*n)
-		copy(m[i], a[i])
-		m[i][n+i] = 1
-	}
-	var scale float64
-	for i := range a {
-		for _, x := range a[i] {
-			scale = math.Max(scale, math.Abs(x))
-		}
-	}
-	for c := 0; c < n; c++ {
-		p := c
-		for r := c + 1; r < n; r++ {
-			if math.Abs(m[r][c]) > math.Abs(m[p][c]) {
-				p = r
-			}
-		}
-		if !(math.Abs(m[p][c]) > 1e-13*scale) {
-			return nil, errors.New("singular")
-		}
-		m[c], m[p] = m[p], m[c]
-		d := 1 / m[c][c]
-		for j := range m[c] {
-			m[c][j] *= d
-		}
-		for r := 0; r < n; r++ {
-			if r == c || m[r][c] == 0 {
-				continue
-			}
-			f := m[r][c]
-			for j := range m[r] {
-				m[r][j] -= f * m[c][j]
-			}
-		}
-	}
-	out := make([]float64, n*n)
-	for i := 0; i < n; i++ {
-		copy(out[i*n:], m[i][n:])
-	}
-	return out, nil
+// shotState is the mutable state of one shot (or of the de-energised line during the
+// dead time): the elements and the node voltages of the last step.
+type shotState struct {
+	*nodal
+	src      modalSource
+	branches []companion
+	lines    []*modalBergeron
 }
 
-// shotState is the mutable state of one shot (or of the de-energised line during the
-// dead time).
-type shotState struct {
-	lines    []*modalBergeron
-	branches []swBranch
-	srcU     [3]float64 // modal source branch voltage (EMF − bus)
-	srcI     [3]float64 // modal source current into the bus
-	j        []float64  // injections, full nodes
-	rhs, vu  []float64
-	v        []float64       // node voltages
-	hist     [][2][3]float64 // line history currents of the current step
+// wire builds st's nodal network from its parts, in the order of the injections:
+// source, lumped branches, line sections.
+func (st *shotState) wire(nodes int, ideal bool) {
+	var elems []element
+	if !ideal {
+		elems = append(elems, &st.src)
+	}
+	for bi := range st.branches {
+		elems = append(elems, &st.branches[bi])
+	}
+	for _, ln := range st.lines {
+		elems = append(elems, ln)
+	}
+	st.nodal = newNodal(nodes, elems)
 }
 
 // clone returns a deep copy of st.
-func (st *shotState) clone() *shotState {
-	c := &shotState{srcU: st.srcU, srcI: st.srcI}
+func (st *shotState) clone(ideal bool) *shotState {
+	c := &shotState{src: st.src}
 	c.lines = make([]*modalBergeron, len(st.lines))
 	for i, ln := range st.lines {
 		c.lines[i] = ln.clone()
 	}
-	c.branches = append([]swBranch(nil), st.branches...)
-	c.j = make([]float64, len(st.j))
-	c.v = append([]float64(nil), st.v...)
-	c.hist = make([][2][3]float64, 0, len(st.lines))
+	c.branches = append([]companion(nil), st.branches...)
+	c.wire(len(st.v), ideal)
+	copy(c.v, st.v)
 	return c
 }
 
@@ -633,15 +534,13 @@ func (st *shotState) clone() *shotState {
 // trapped voltages (V, phase to earth) with zero current in the line and in every
 // line-side shunt, the source side at rest.
 func (sim *SwitchingSimulator) openingState(trapped [3]float64) *shotState {
-	st := &shotState{}
-	for _, sec := range sim.net.Line.Sections {
-		st.lines = append(st.lines, newModalBergeron(sec, sim.dt, trapped))
+	st := &shotState{src: sim.src}
+	for j, sec := range sim.net.Line.Sections {
+		st.lines = append(st.lines, newModalBergeron(sec, sim.dt, trapped, [2][3]int{sim.endNode[j], sim.endNode[j+1]}))
 	}
-	st.branches = append([]swBranch(nil), sim.branches...)
+	st.branches = append([]companion(nil), sim.branches...)
 	n := sim.nNodes
-	st.j = make([]float64, n)
-	st.v = make([]float64, n)
-	st.hist = make([][2][3]float64, 0, len(st.lines))
+	st.wire(n, sim.ideal)
 	for a := 3; a < n; a++ {
 		st.v[a] = sim.trappedAt(a, trapped)
 	}
@@ -682,7 +581,10 @@ func (sim *SwitchingSimulator) initSource(st *shotState, th, tm1 float64) {
 		srcUp[k] = imag((e-vb)*rot) * base
 		srcIp[k] = imag(vb*ysb*rot) * base
 	}
-	st.srcU, st.srcI = toModal(srcUp), toModal(srcIp)
+	srcU, srcI := toModal(srcUp), toModal(srcIp)
+	for m := 0; m < 3; m++ {
+		st.src.mode[m].v, st.src.mode[m].i = srcU[m], srcI[m]
+	}
 	for bi := range st.branches {
 		br := &st.branches[bi]
 		if br.a >= 3 {
@@ -702,198 +604,140 @@ func (sim *SwitchingSimulator) initSource(st *shotState, th, tm1 float64) {
 	}
 }
 
-// advance takes st one time step on with the topology tp and the phase EMFs ek (V).
-func (sim *SwitchingSimulator) advance(st *shotState, tp *topology, ek [3]float64) {
-	n := sim.nNodes
-	for i := range st.j {
-		st.j[i] = 0
+// advance takes st one time step on with the topology tp and the phase EMFs ek (V):
+// inject, solve (with the arresters' compensation), update. The step is taken
+// whatever happens; the error wraps ErrNoConvergence when the arrester currents did
+// not converge.
+func (sim *SwitchingSimulator) advance(st *shotState, tp *switchTopo, ek [3]float64) error {
+	st.inject(ek)
+	var err error
+	if tp.arr != nil {
+		err = st.solve(tp.topology, ek, tp.arr.correct)
+	} else {
+		err = st.solve(tp.topology, ek, nil)
 	}
-	if !sim.ideal {
-		var hm [3]float64
-		em := toModal(ek)
-		for m := 0; m < 3; m++ {
-			// i = G·u + G·(u_prev + K·i_prev), u = e − v_bus
-			hm[m] = sim.srcG[m]*em[m] + sim.srcG[m]*(st.srcU[m]+sim.srcK[m]*st.srcI[m])
-		}
-		hp := toPhase(hm)
-		for k := 0; k < 3; k++ {
-			st.j[sim.busNode[k]] += hp[k]
-		}
-	}
-	for bi := range st.branches {
-		br := &st.branches[bi]
-		br.history()
-		st.j[br.a] -= br.hist
-		if br.b >= 0 {
-			st.j[br.b] += br.hist
-		}
-	}
-	st.hist = st.hist[:0]
-	for li, ln := range st.lines {
-		hs, hr := ln.history()
-		st.hist = append(st.hist, [2][3]float64{hs, hr})
-		ps, pr := toPhase(hs), toPhase(hr)
-		for k := 0; k < 3; k++ {
-			st.j[sim.endNode[li][k]] -= ps[k]
-			st.j[sim.endNode[li+1][k]] -= pr[k]
-		}
-	}
-	// Solve.
-	nu := tp.nu
-	if cap(st.rhs) < nu {
-		st.rhs = make([]float64, nu)
-		st.vu = make([]float64, nu)
-	}
-	rhs, vu := st.rhs[:nu], st.vu[:nu]
-	for i := range rhs {
-		rhs[i] = 0
-	}
-	for a := 0; a < n; a++ {
-		if u := tp.nodeU[a]; u >= 0 {
-			rhs[u] += st.j[a]
-		}
-	}
-	if sim.ideal {
-		for u := 0; u < nu; u++ {
-			rhs[u] -= tp.guk[u*3]*ek[0] + tp.guk[u*3+1]*ek[1] + tp.guk[u*3+2]*ek[2]
-		}
-	}
-	for r := 0; r < nu; r++ {
-		row := tp.inv[r*nu : (r+1)*nu]
-		var s float64
-		for c, x := range row {
-			s += x * rhs[c]
-		}
-		vu[r] = s
-	}
-	if len(tp.arrU) > 0 {
-		sim.arresters(tp, st, vu)
-	}
-	for a := 0; a < n; a++ {
-		if u := tp.nodeU[a]; u >= 0 {
-			st.v[a] = vu[u]
-		} else {
-			st.v[a] = ek[tp.nodeK[a]]
-		}
-	}
-	// Update states.
-	if !sim.ideal {
-		var up [3]float64
-		for k := 0; k < 3; k++ {
-			up[k] = ek[k] - st.v[sim.busNode[k]]
-		}
-		um := toModal(up)
-		for m := 0; m < 3; m++ {
-			st.srcI[m] = sim.srcG[m]*um[m] + sim.srcG[m]*(st.srcU[m]+sim.srcK[m]*st.srcI[m])
-		}
-		st.srcU = um
-	}
-	for bi := range st.branches {
-		br := &st.branches[bi]
-		v := st.v[br.a]
-		if br.b >= 0 {
-			v -= st.v[br.b]
-		}
-		br.update(v)
-	}
-	for li, ln := range st.lines {
-		var vs, vr [3]float64
-		for k := 0; k < 3; k++ {
-			vs[k] = st.v[sim.endNode[li][k]]
-			vr[k] = st.v[sim.endNode[li+1][k]]
-		}
-		vsm, vrm := toModal(vs), toModal(vr)
-		var is, ir [3]float64
-		for m := 0; m < 3; m++ {
-			is[m] = vsm[m]/ln.z[m] + st.hist[li][0][m]
-			ir[m] = vrm[m]/ln.z[m] + st.hist[li][1][m]
-		}
-		ln.store(vsm, vrm, is, ir)
-	}
+	st.update(ek)
+	return err
 }
 
-// Shot simulates one shot. With record it also returns the waveforms.
-func (sim *SwitchingSimulator) Shot(spec ShotSpec, record bool) (Shot, *ThreePhaseWave) {
-	net, dt, set := sim.net, sim.dt, sim.set
-	w := net.Omega
-	th := spec.CloseDeg * math.Pi / 180
-	first := math.Min(spec.Offset[0], math.Min(spec.Offset[1], spec.Offset[2]))
-	t0 := first
-	var nIns int
-	if set.Preinsertion > 0 {
-		nIns = int(math.Round(set.InsertTime / dt))
-		nIns = max(nIns, 1)
-	}
-	var nClose [3]int
-	for k := 0; k < 3; k++ {
-		nClose[k] = int(math.Round((spec.Offset[k] - t0) / dt))
-	}
-	lastContact := float64(max(nClose[0], nClose[1], nClose[2])+nIns) * dt
-	nSteps := int(math.Round((lastContact+set.Duration)/dt)) + 1
-	emf := func(t float64, k int) float64 {
-		return math.Sin(w*t + th - float64(k)*2*math.Pi/3)
-	}
-	base := net.EMFPeak
+// shotPlan is the timing of one shot in steps: the first contact is step 0 (at
+// Start, relative to the mean closing instant), pole k makes contact at close[k],
+// the pre-insertion resistors stay in for ins steps.
+type shotPlan struct {
+	start       float64 // s, the first pole's contact
+	close       [3]int
+	ins         int
+	lastContact float64 // s from start: the last pole's last contact
+	steps       int
+}
 
-	// Initial state at t0 − dt: the line side at the trapped voltages with zero
-	// current, or as the dead time left it; the source side in its sinusoidal steady
-	// state with the breaker open.
+func (sim *SwitchingSimulator) plan(spec ShotSpec) shotPlan {
+	dt, set := sim.dt, sim.set
+	p := shotPlan{start: math.Min(spec.Offset[0], math.Min(spec.Offset[1], spec.Offset[2]))}
+	if set.Preinsertion > 0 {
+		p.ins = max(int(math.Round(set.InsertTime/dt)), 1)
+	}
+	for k := 0; k < 3; k++ {
+		p.close[k] = int(math.Round((spec.Offset[k] - p.start) / dt))
+	}
+	p.lastContact = float64(max(p.close[0], p.close[1], p.close[2])+p.ins) * dt
+	p.steps = int(math.Round((p.lastContact+set.Duration)/dt)) + 1
+	return p
+}
+
+// code returns the topology code of the pole states at step.
+func (p *shotPlan) code(step int) int {
+	code, mul := 0, 1
+	for k := 0; k < 3; k++ {
+		s := poleOpen
+		if step >= p.close[k] {
+			s = poleClosed
+			if p.ins > 0 && step < p.close[k]+p.ins {
+				s = poleResistor
+			}
+		}
+		code += s * mul
+		mul *= 3
+	}
+	return code
+}
+
+// startState returns the state one step before the first contact: the line side at
+// the trapped voltages with zero current, or as the dead time left it; the source
+// side in its sinusoidal steady state with the breaker open.
+func (sim *SwitchingSimulator) startState(spec ShotSpec, p shotPlan) (*shotState, error) {
+	t := p.start - sim.dt
 	var st *shotState
 	if sim.ring != nil {
-		st = sim.ring.stateAt(sim, sim.ring.stepAt(t0-dt, dt))
+		var err error
+		if st, err = sim.ring.stateAt(sim, sim.ring.stepAt(t, sim.dt)); err != nil {
+			return nil, fmt.Errorf("during the dead time: %w", err)
+		}
 	} else {
 		st = sim.openingState(sim.trappedV())
 	}
-	sim.initSource(st, th, t0-dt)
+	sim.initSource(st, spec.CloseDeg*math.Pi/180, t)
+	return st, nil
+}
 
-	var shot Shot
-	shot.ShotSpec = spec
+// newWave returns the empty waveforms of a recorded shot.
+func (sim *SwitchingSimulator) newWave(p shotPlan) *ThreePhaseWave {
+	w := &ThreePhaseWave{Step: sim.dt, Start: p.start, LastContact: p.start + p.lastContact}
+	for k := 0; k < 3; k++ {
+		w.Sending[k] = make([]float64, p.steps)
+		w.Receiving[k] = make([]float64, p.steps)
+		w.EMF[k] = make([]float64, p.steps)
+	}
+	return w
+}
+
+// record keeps the step's receiving-end extremes in shot and, if wave is not nil,
+// the step's end voltages and EMFs (pu).
+func (sim *SwitchingSimulator) record(shot *Shot, wave *ThreePhaseWave, st *shotState, step int, t float64, ek [3]float64) {
+	base := sim.net.EMFPeak
+	recv := sim.endNode[len(sim.endNode)-1]
+	send := sim.endNode[0]
+	for k := 0; k < 3; k++ {
+		vr := st.v[recv[k]] / base
+		if step == 0 || math.Abs(vr) > math.Abs(shot.Peak[k]) {
+			shot.Peak[k] = vr
+			shot.PeakTime[k] = t
+		}
+		if wave != nil {
+			wave.Receiving[k][step] = vr
+			wave.Sending[k][step] = st.v[send[k]] / base
+			wave.EMF[k][step] = ek[k] / base
+		}
+	}
+}
+
+// Shot simulates one shot. With record it also returns the waveforms. The error
+// wraps ErrNoConvergence, with the time, when the arrester currents did not converge.
+func (sim *SwitchingSimulator) Shot(spec ShotSpec, record bool) (Shot, *ThreePhaseWave, error) {
+	w, base := sim.net.Omega, sim.net.EMFPeak
+	th := spec.CloseDeg * math.Pi / 180
+	p := sim.plan(spec)
+	shot := Shot{ShotSpec: spec}
+	st, err := sim.startState(spec, p)
+	if err != nil {
+		return shot, nil, err
+	}
 	var wave *ThreePhaseWave
 	if record {
-		wave = &ThreePhaseWave{Step: dt, Start: t0, LastContact: t0 + lastContact}
-		for k := 0; k < 3; k++ {
-			wave.Sending[k] = make([]float64, nSteps)
-			wave.Receiving[k] = make([]float64, nSteps)
-			wave.EMF[k] = make([]float64, nSteps)
-		}
+		wave = sim.newWave(p)
 	}
-	nj := len(sim.endNode)
-	recv := sim.endNode[nj-1]
-	send := sim.endNode[0]
 	var ek [3]float64
-	for step := 0; step < nSteps; step++ {
-		t := t0 + float64(step)*dt
-		code := 0
-		mul := 1
+	for step := 0; step < p.steps; step++ {
+		t := p.start + float64(step)*sim.dt
 		for k := 0; k < 3; k++ {
-			s := poleOpen
-			if step >= nClose[k] {
-				s = poleClosed
-				if nIns > 0 && step < nClose[k]+nIns {
-					s = poleResistor
-				}
-			}
-			code += s * mul
-			mul *= 3
+			ek[k] = math.Sin(w*t+th-float64(k)*2*math.Pi/3) * base
 		}
-		for k := 0; k < 3; k++ {
-			ek[k] = emf(t, k) * base
+		if err := sim.advance(st, sim.topo[p.code(step)], ek); err != nil {
+			return shot, nil, fmt.Errorf("at t = %.6g ms: %w", t*1e3, err)
 		}
-		sim.advance(st, sim.topo[code], ek)
-		for k := 0; k < 3; k++ {
-			vr := st.v[recv[k]] / base
-			if step == 0 || math.Abs(vr) > math.Abs(shot.Peak[k]) {
-				shot.Peak[k] = vr
-				shot.PeakTime[k] = t
-			}
-			if record {
-				wave.Receiving[k][step] = vr
-				wave.Sending[k][step] = st.v[send[k]] / base
-				wave.EMF[k][step] = ek[k] / base
-			}
-		}
+		sim.record(&shot, wave, st, step, t, ek)
 	}
-	return shot, wave
+	return shot, wave, nil
 }
 
 // trappedV returns the trapped voltages in V.
@@ -927,137 +771,35 @@ func (sim *SwitchingSimulator) trappedAt(node int, trapped [3]float64) float64 {
 	return trapped[(node-3)%3]
 }
 
-// arresters corrects the linear solution vu for the arrester currents by the
-// compensation method: with v_lin the node voltages without arrester current and Zth
-// the Thevenin impedance matrix at the arrester nodes,
-//
-//	v = v_lin − Zth·i(v)
-//
-// solved by Newton's method with step halving, then vu −= inv·i over all nodes.
-func (sim *SwitchingSimulator) arresters(tp *topology, st *shotState, vu []float64) {
-	na := len(tp.arrU)
-	nu := tp.nu
-	vlin := make([]float64, na)
-	v := make([]float64, na)
-	cur := make([]float64, na)
-	di := make([]float64, na)
-	g := make([]float64, na)
-	jac := make([][]float64, na)
-	for p := range jac {
-		jac[p] = make([]float64, na+1)
-	}
-	for p, u := range tp.arrU {
-		vlin[p] = vu[u]
-		v[p] = vu[u]
-	}
-	eval := func(v []float64) float64 {
-		var norm float64
-		for p := range v {
-			var s, d float64
-			for _, c := range tp.arrC[p] {
-				i, dd := c.current(v[p])
-				s += i
-				d += dd
-			}
-			cur[p], di[p] = s, d
-		}
-		for p := range v {
-			s := v[p] - vlin[p]
-			for q := range v {
-				s += tp.arrZth[p*na+q] * cur[q]
-			}
-			g[p] = s
-			norm = math.Max(norm, math.Abs(s))
-		}
-		return norm
-	}
-	tol := 1e-9 * sim.net.EMFPeak
-	norm := eval(v)
-	trial := make([]float64, na)
-	for it := 0; it < 60 && norm > tol; it++ {
-		for p := 0; p < na; p++ {
-			for q := 0; q < na; q++ {
-				jac[p][q] = tp.arrZth[p*na+q] * di[q]
-			}
-			jac[p][p] += 1
-			jac[p][na] = -g[p]
-		}
-		dx := solveSmall(jac)
-		step := 1.0
-		for tries := 0; tries < 30; tries++ {
-			for p := range v {
-				trial[p] = v[p] + step*dx[p]
-			}
-			if nn := eval(trial); nn < norm || tries == 29 {
-				norm = nn
-				copy(v, trial)
-				break
-			}
-			step /= 2
-		}
-	}
-	eval(v)
-	for r := 0; r < nu; r++ {
-		var s float64
-		for p, u := range tp.arrU {
-			s += tp.inv[r*nu+u] * cur[p]
-		}
-		vu[r] -= s
-	}
-}
-
-// solveSmall solves the augmented system a (n rows of n+1) by Gaussian elimination
-// with partial pivoting; a is overwritten.
-func solveSmall(a [][]float64) []float64 {
-	n := len(a)
-	for c := 0; c < n; c++ {
-		p := c
-		for r := c + 1; r < n; r++ {
-			if math.Abs(a[r][c]) > math.Abs(a[p][c]) {
-				p = r
-			}
-		}
-		a[c], a[p] = a[p], a[c]
-		for r := c + 1; r < n; r++ {
-			f := a[r][c] / a[c][c]
-			for j := c; j <= n; j++ {
-				a[r][j] -= f * a[c][j]
-			}
-		}
-	}
-	x := make([]float64, n)
-	for r := n - 1; r >= 0; r-- {
-		s := a[r][n]
-		for j := r + 1; j < n; j++ {
-			s -= a[r][j] * x[j]
-		}
-		x[r] = s / a[r][r]
-	}
-	return x
-}
-
 // Run simulates every shot, spread over workers goroutines (0 = GOMAXPROCS). Each
 // shot depends only on its ShotSpec, so the results are the same whatever the number
 // of workers. progress, if not nil, is called (from any goroutine, possibly
-// concurrently) with the number of shots done so far.
-func (sim *SwitchingSimulator) Run(specs []ShotSpec, workers int, progress func(done int)) []Shot {
+// concurrently) with the number of shots done so far. A shot that fails (arrester
+// currents that do not converge: ErrNoConvergence) stops the run; the error names
+// the first failed shot in the order drawn among those simulated.
+func (sim *SwitchingSimulator) Run(specs []ShotSpec, workers int, progress func(done int)) ([]Shot, error) {
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
 	workers = min(workers, len(specs))
 	out := make([]Shot, len(specs))
+	errs := make([]error, len(specs))
 	var next, done atomic.Int64
+	var failed atomic.Bool
 	var wg sync.WaitGroup
 	for w := 0; w < workers; w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			for {
+			for !failed.Load() {
 				k := int(next.Add(1) - 1)
 				if k >= len(specs) {
 					return
 				}
-				out[k], _ = sim.Shot(specs[k], false)
+				if out[k], _, errs[k] = sim.Shot(specs[k], false); errs[k] != nil {
+					failed.Store(true)
+					return
+				}
 				d := done.Add(1)
 				if progress != nil {
 					progress(int(d))
@@ -1066,7 +808,12 @@ func (sim *SwitchingSimulator) Run(specs []ShotSpec, workers int, progress func(
 		}()
 	}
 	wg.Wait()
-	return out
+	for k, err := range errs {
+		if err != nil {
+			return nil, fmt.Errorf("waves: switching: shot %d (closing angle %.4g°): %w (check the arresters' V-I tables, or try a smaller time step)", k+1, specs[k].CloseDeg, err)
+		}
+	}
+	return out, nil
 }
 
 // Switching runs a whole statistical switching study: draws the shots (DrawShots, or
@@ -1082,7 +829,10 @@ func Switching(net ThreePhase, s SwitchingSettings, progress func(done int)) (*S
 	if s.Controlled {
 		specs = sim.ControlledShots()
 	}
-	shots := sim.Run(specs, s.Workers, progress)
+	shots, err := sim.Run(specs, s.Workers, progress)
+	if err != nil {
+		return nil, err
+	}
 	for _, sh := range shots {
 		for k := 0; k < 3; k++ {
 			if math.IsNaN(sh.Peak[k]) || math.IsInf(sh.Peak[k], 0) {

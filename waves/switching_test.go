@@ -54,7 +54,10 @@ func TestSwitchingBalancedEqualsSinglePhase(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			_, w := sim.Shot(ShotSpec{CloseDeg: tc.close}, true)
+			_, w, err := sim.Shot(ShotSpec{CloseDeg: tc.close}, true)
+			if err != nil {
+				t.Fatal(err)
+			}
 			for k := 0; k < 3; k++ {
 				e := Energisation{Excitation: Sine, Omega: swOmega, CloseDeg: tc.close - float64(k)*120, Duration: 0.02, TimeStep: sim.Step()}
 				ref, err := Laplace(net, e, LaplaceOptions{})
@@ -100,7 +103,10 @@ func TestSwitchingTrappedChargeThreePU(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	sh, _ := sim.Shot(ShotSpec{CloseDeg: 90}, false)
+	sh, _, err := sim.Shot(ShotSpec{CloseDeg: 90}, false)
+	if err != nil {
+		t.Fatal(err)
+	}
 	if sh.Peak[0] < lo || sh.Peak[0] > hi {
 		t.Errorf("phase a peak %.3f pu, want %.2f..%.2f", sh.Peak[0], lo, hi)
 	}
@@ -120,7 +126,10 @@ func TestSwitchingIdealSource(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		sh, _ := sim.Shot(spec, false)
+		sh, _, err := sim.Shot(spec, false)
+		if err != nil {
+			t.Fatal(err)
+		}
 		peaks[i] = sh.Peak
 	}
 	for k := 0; k < 3; k++ {
@@ -185,13 +194,19 @@ func TestSwitchingArresterLimits(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	bare, _ := sim.Shot(spec, false)
+	bare, _, err := sim.Shot(spec, false)
+	if err != nil {
+		t.Fatal(err)
+	}
 	tp.Arresters = []Arrester{{Name: "receiving", At: 1, VI: TypicalArrester(336e3)}}
 	sim, err = NewSwitchingSimulator(tp, s)
 	if err != nil {
 		t.Fatal(err)
 	}
-	prot, w := sim.Shot(spec, true)
+	prot, w, err := sim.Shot(spec, true)
+	if err != nil {
+		t.Fatal(err)
+	}
 	ups2kA, err := SwitchingProtectiveLevel(TypicalArrester(336e3), 2000)
 	if err != nil {
 		t.Fatal(err)
@@ -433,7 +448,10 @@ func TestSwitchingSectionsCascade(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		sh, _ := sim.Shot(spec, false)
+		sh, _, err := sim.Shot(spec, false)
+		if err != nil {
+			t.Fatal(err)
+		}
 		peaks[i] = sh.Peak
 	}
 	for k := 0; k < 3; k++ {

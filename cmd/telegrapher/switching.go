@@ -19,6 +19,7 @@ package main
 //	printSwitching(w, r)           the text summary
 
 import (
+	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -285,6 +286,8 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int, pa
 			msg := strings.TrimPrefix(err.Error(), "switching: ")
 			key := "switching"
 			switch {
+			case errors.Is(err, waves.ErrNoConvergence):
+				key = "switching.arrester"
 			case strings.Contains(msg, "time step"):
 				key = "switching.time_step_us"
 			case strings.Contains(msg, "samples"):
@@ -299,6 +302,9 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int, pa
 			return nil, nil, nil, usagef("%s: %s: %s", st.File, key, msg)
 		}
 		r, err := waves.Switching(n, ws, prog)
+		if errors.Is(err, waves.ErrNoConvergence) {
+			return nil, nil, nil, usagef("%s: switching.arrester: %v", st.File, err)
+		}
 		if err != nil {
 			return nil, nil, nil, err
 		}
@@ -376,7 +382,10 @@ func computeSwitchingProgress(st *study.Study, progress func(done, total int, pa
 			}
 		}
 	}
-	shot, wave := sim.Shot(r.Shots[worst].ShotSpec, true)
+	shot, wave, err := sim.Shot(r.Shots[worst].ShotSpec, true)
+	if err != nil {
+		return res, err
+	}
 	res.Worst = wave
 	res.WorstShot = switchingWorst{Index: worst, CloseDeg: math.Mod(shot.CloseDeg, 360), PeakPU: shot.Peak}
 	for k := 0; k < 3; k++ {

@@ -137,6 +137,12 @@ func TestSwitchingCommandText(t *testing.T) {
 	}
 }
 
+// steepArrester is a V-I table too steep for the arrester currents to converge.
+const steepArrester = `[[switching.arrester]]
+at = "receiving"
+vi_ka_kv = [[0.001, 200], [0.002, 200.06]]
+`
+
 func TestSwitchingCommandErrors(t *testing.T) {
 	t.Parallel()
 	noZero := strings.NewReplacer("r0_ohm_per_km = 0.25\n", "", "l0_mh_per_km = 3.0\n", "", "c0_nf_per_km = 7.5\n", "").Replace(switchingStudy)
@@ -148,6 +154,9 @@ func TestSwitchingCommandErrors(t *testing.T) {
 		{"bad shots", strings.Replace(switchingStudy, "shots = 60", "shots = 0", 1), "switching.shots"},
 		{"step above travel time", strings.Replace(switchingStudy, "shots = 60", "shots = 2\ntime_step_us = 2000", 1), "switching.time_step_us: time step"},
 		{"neutral without reactor", strings.Replace(switchingStudy, "shots = 60", "shots = 2\nneutral_reactor_sending_ohm = 100", 1), "switching.neutral_reactor_sending_ohm"},
+		// a near-ideal clamp (α ≈ 2300): the arrester currents cannot converge
+		{"arrester too steep", strings.Replace(switchingStudy, "shots = 60", "shots = 2", 1) + steepArrester, "switching.arrester: waves: switching: shot 1"},
+		{"arrester too steep in the dead time", strings.Replace(switchingStudy, "shots = 60", "shots = 2\ntrapped_pu = [1, -0.5, -0.5]\ndead_time_ms = 100", 1) + steepArrester, "switching.arrester: waves: switching: the dead time's ring-down"},
 	} {
 		path := writeSwitchingStudy(t, tc.body)
 		var out, errb bytes.Buffer
