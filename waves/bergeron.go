@@ -130,7 +130,8 @@ type stepChoice struct {
 	worstFrac  float64 // the largest fraction of a step interpolated in a history
 }
 
-// chooseStep returns e.TimeStep, or a fiftieth of the shortest piece's round trip.
+// chooseStep returns e.TimeStep, or a fiftieth of the shortest piece's round trip (at
+// most that piece's travel time, within MaxSamples over the run).
 func chooseStep(pieces []piece, e Energisation) (stepChoice, error) {
 	c := stepChoice{tauMin: math.Inf(1), exact: true}
 	for _, p := range pieces {
@@ -139,6 +140,15 @@ func chooseStep(pieces []piece, e Energisation) (stepChoice, error) {
 	c.dt = e.TimeStep
 	if c.dt == 0 {
 		c.dt = defaultStep(2*c.tauMin, e.Duration) // a fiftieth of the shortest piece
+		// The sample cap of defaultStep may not stretch the step past the shortest
+		// travel time (a short line over a long run): hold it there, within MaxSamples.
+		if c.dt > c.tauMin {
+			c.dt = c.tauMin
+			if n := e.Duration / c.dt; n > MaxSamples {
+				return c, fmt.Errorf("%w: bergeron: a run of %.4g ms needs %.3g samples at the longest step the method allows (the shortest line piece's travel time, %.4g µs), more than %d: shorten duration_ms, or use the laplace method",
+					ErrSettings, e.Duration*1e3, n, c.tauMin*1e6, MaxSamples)
+			}
+		}
 	}
 	if c.dt > c.tauMin {
 		return c, fmt.Errorf("%w: bergeron: time step %.4g µs exceeds the shortest travel time %.4g µs", ErrSettings, c.dt*1e6, c.tauMin*1e6)

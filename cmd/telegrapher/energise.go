@@ -899,7 +899,7 @@ func printEnergise(w io.Writer, st *study.Study, res energiseResult) {
 	if res.Waveform == "sine" {
 		exc = fmt.Sprintf("EMF sin(wt + %g deg)", res.CloseDeg)
 	}
-	fmt.Fprintf(w, "  %s, trapped charge %g pu, %.4g ms in steps of %.4g us; travel time %.4f ms\n", exc, res.TrappedPU, res.DurationMs, res.TimeStepUs, res.TravelTimeMs)
+	fmt.Fprintf(w, "  %s, trapped charge %g pu, %.4g ms in steps of %.4g us; travel time %.5g ms\n", exc, res.TrappedPU, res.DurationMs, res.TimeStepUs, res.TravelTimeMs)
 	if res.DurationHow != "given" {
 		fmt.Fprintf(w, "  duration %.4g ms (%s)\n", res.DurationMs, res.DurationHow)
 	}
