@@ -30,7 +30,7 @@
 //
 // The line core, written once and called by freqscan and waves: PrincipalSqrt (the
 // complex square root for γ and Zc), ExpForm and ExactExp (the exact two-port in the
-// exponential form, e^{-2γl}, for per-frequency kernels that must not allocate),
-// ExactOf (the two-port as TwoPort), and in sequence.go the Clarke transformation and
+// exponential form, e^{-2γl}, for per-frequency kernels that must not allocate; Line.Exact
+// takes its long-line branch from it), and in sequence.go the Clarke transformation and
 // the symmetrical components.
 package propagation

@@ -136,12 +136,11 @@ func (l Line) SIL(v, omega float64) float64 {
 	return v * v / zc
 }
 
-// Exact returns the exact hyperbolic two-port of the line at s (ExactOf of γl and Zc):
+// Exact returns the exact hyperbolic two-port of the line at s:
 //
 //	A = D = cosh(γl),  B = Zc sinh(γl),  C = sinh(γl)/Zc
 //
-// For Re(γl) > 300 the elements are returned scaled by exp(-Re γl) (see TwoPort). Where
-// γ = 0 it is the series z·l and shunt y·l of the whole line.
+// For Re(γl) > 300 the elements are returned scaled by exp(-Re γl) (see TwoPort).
 func (l Line) Exact(s complex128) TwoPort {
 	z, y := l.At(s)
 	gamma, zc := gammaZc(z, y)
@@ -149,23 +148,6 @@ func (l Line) Exact(s complex128) TwoPort {
 	if gl == 0 {
 		return TwoPort{A: 1, B: z * complex(l.Length, 0), C: y * complex(l.Length, 0), D: 1}
 	}
-	return ExactOf(gl, zc)
-}
-
-// ExactOf returns the exact two-port of a uniform line of electrical length gl = γ·l
-// (dimensionless) and surge impedance zc (ohm, nonzero):
-//
-//	A = D = cosh(γl),  B = Zc sinh(γl),  C = sinh(γl)/Zc
-//
-// by cmplx.Cosh and cmplx.Sinh up to Re(γl) = 300, and beyond it from the exponential
-// form (ExpForm) with the elements scaled by exp(-Re γl) into LogScale, so that an
-// electrically long lossy line does not overflow.
-//
-// References:
-//
-//   - A. E. Kennelly, The Application of Hyperbolic Functions to Electrical
-//     Engineering Problems, 3rd ed., McGraw-Hill (1925); from memory.
-func ExactOf(gl, zc complex128) TwoPort {
 	var ch, sh complex128
 	var logScale float64
 	if real(gl) <= 300 {

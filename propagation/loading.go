@@ -257,8 +257,9 @@ func (p *profiler) set(vr, ir complex128) {
 	v, i := vr, ir
 	for k := len(p.gamma) - 1; k >= 0; k-- {
 		p.vk[k], p.ik[k] = v, i
-		a, b, c, d, _ := ExactOf(p.gamma[k]*complex(p.lengths[k], 0), p.zc[k]).Elements()
-		v, i = a*p.vk[k]+b*p.ik[k], c*p.vk[k]+d*p.ik[k]
+		gl := p.gamma[k] * complex(p.lengths[k], 0)
+		ch, sh := cmplx.Cosh(gl), cmplx.Sinh(gl)
+		v, i = ch*p.vk[k]+p.zc[k]*sh*p.ik[k], sh/p.zc[k]*p.vk[k]+ch*p.ik[k]
 	}
 }
 
@@ -281,8 +282,7 @@ func (p *profiler) atIn(k int, x float64) complex128 {
 	if p.zc[k] == 0 {
 		return p.vk[k]
 	}
-	a, b, _, _, _ := ExactOf(gd, p.zc[k]).Elements()
-	return a*p.vk[k] + b*p.ik[k]
+	return cmplx.Cosh(gd)*p.vk[k] + p.zc[k]*cmplx.Sinh(gd)*p.ik[k]
 }
 
 // extremeTie is the relative difference below which two voltages along the line count
