@@ -105,22 +105,15 @@ func (k *kernel) eval(p *Point, f float64) {
 		z, y = k.n.Line[0].At(complex(0, w))
 	}
 	bad := false
-	gamma := csqrt(z * y)
+	gamma := propagation.PrincipalSqrt(z * y)
 	ig := inv(gamma, &bad)
 	gl := gamma * complex(k.length, 0)
 	if bad || math.Abs(real(gl))+math.Abs(imag(gl)) < smallGammaL {
 		*p = k.n.point(f)
 		return
 	}
-	zc, yc := z*ig, y*ig // Zc and 1/Zc
-	sn, cs := math.Sincos(-imag(gl))
-	m := math.Exp(-real(gl))
-	x := complex(m*cs, m*sn)
-	wx := x * x
-	a := 1 + wx
-	sh := 1 - wx
-	b := zc * sh
-	c := sh * yc
+	// The line's two-port times 2e^{-γl} (|2e^{-γl}| = 2m), with Zc = z/γ, 1/Zc = y/γ.
+	a, b, c, _, m := propagation.ExactExp(gl, z*ig, y*ig)
 
 	ysl := shuntsAdmittance(k.sendLine, w, &bad)
 	ysb := shuntsAdmittance(k.sendBus, w, &bad)

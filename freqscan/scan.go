@@ -5,6 +5,8 @@ import (
 	"math/cmplx"
 	"runtime"
 	"sync"
+
+	"github.com/telegrapher/telegrapher/propagation"
 )
 
 // Point is the network's response at one frequency of a scan.
@@ -96,7 +98,7 @@ func (n Network) response(s complex128) Response {
 	}
 	l := n.Line[0]
 	z, y := l.At(s)
-	gamma := csqrt(z * y)
+	gamma := propagation.PrincipalSqrt(z * y)
 	if gamma == 0 {
 		return n.At(s)
 	}
@@ -105,15 +107,10 @@ func (n Network) response(s complex128) Response {
 	if math.Abs(real(gl))+math.Abs(imag(gl)) < smallGammaL {
 		return n.At(s)
 	}
-	sn, cs := math.Sincos(-imag(gl))
-	m := math.Exp(-real(gl))
-	x := complex(m*cs, m*sn)
-	w := x * x
-	a := 1 + w
-	sh := 1 - w
-	// The true elements are these times e^{γl}/2; ratios need |2x| = 2 e^{-Re γl}
-	// and its phase, carried in k as a complex factor folded into the ratios below.
-	return n.respondExp(s, a, zc*sh, sh/zc, a, 2*x)
+	// The true elements are these over 2x = 2e^{-γl}; ratios need |2x| = 2 e^{-Re γl}
+	// and its phase, carried in kx as a complex factor folded into the ratios below.
+	a, b, c, x, _ := propagation.ExactExp(gl, zc, 1/zc)
+	return n.respondExp(s, a, b, c, a, 2*x)
 }
 
 // respondExp is respondScaled with a complex scale factor kx (Vr/Vs = kx/(A' + B'Yr)).
@@ -130,26 +127,6 @@ func mulInf(a, b complex128) complex128 {
 		return complex(math.Inf(1), 0)
 	}
 	return a * b
-}
-
-// csqrt is the principal complex square root (Re >= 0) without the overflow guards of
-// cmplx.Sqrt, which it falls back to for extreme magnitudes.
-func csqrt(c complex128) complex128 {
-	x, y := real(c), imag(c)
-	ax, ay := math.Abs(x), math.Abs(y)
-	if !(ax < 1e150 && ay < 1e150) || (ax < 1e-150 && ay < 1e-150) {
-		return cmplx.Sqrt(c)
-	}
-	r := math.Sqrt(x*x + y*y)
-	if x >= 0 {
-		t := math.Sqrt((r + x) / 2)
-		return complex(t, y/(2*t))
-	}
-	t := math.Sqrt((r - x) / 2)
-	if y < 0 {
-		t = -t
-	}
-	return complex(y/(2*t), t)
 }
 
 // abs is |c|, +Inf for an infinite c.

@@ -27,4 +27,10 @@
 // float64 once Re(γl) > ~710. TwoPort therefore carries a common scale factor
 // exp(LogScale) factored out of all four elements; ratios (voltage ratios, input
 // impedances) are formed from the scaled elements and stay finite.
+//
+// The line core, written once and called by freqscan and waves: PrincipalSqrt (the
+// complex square root for γ and Zc), ExpForm and ExactExp (the exact two-port in the
+// exponential form, e^{-2γl}, for per-frequency kernels that must not allocate; Line.Exact
+// takes its long-line branch from it), and in sequence.go the Clarke transformation and
+// the symmetrical components.
 package propagation

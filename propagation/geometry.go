@@ -227,7 +227,7 @@ func NewGeometry(phases, earthWires []Wire, rho float64, transposed bool) (*Geom
 			cc[i][j] = complex(cm.At(i, j), 0)
 		}
 	}
-	g.seqCM = toSequence(cc)
+	g.seqCM = SequenceMatrix(cc)
 	for k := 0; k < 3; k++ {
 		// The diagonal of A⁻¹·C·A is real for a symmetric real C; drop the rounding.
 		g.seqC[k] = complex(real(g.seqCM[k][k]), 0)
@@ -367,12 +367,7 @@ func (g *Geometry) Sequence(s complex128) (z1, y1, z0, y0 complex128) {
 		return e.z1, e.y1, e.z0, e.y0
 	}
 	z := g.SeriesImpedance(s)
-	// Diagonal of A⁻¹ Z A: z0 = (ΣZii + 2ΣZij)/3, z1 = z2 = (ΣZii - ΣZij)/3 for
-	// symmetric Z (i < j).
-	sd := z[0][0] + z[1][1] + z[2][2]
-	so := (z[0][1] + z[1][0] + z[0][2] + z[2][0] + z[1][2] + z[2][1]) / 2
-	z1 = (sd - so) / 3
-	z0 = (sd + 2*so) / 3
+	z0, z1 = SequenceOfBalanced(z) // the diagonal of A⁻¹ Z A
 	y1, y0 = s*g.seqC[1], s*g.seqC[0]
 	g.last.Store(&sequenceAt{s, z1, y1, z0, y0})
 	return z1, y1, z0, y0
@@ -385,7 +380,7 @@ func (g *Geometry) Sequence(s complex128) (z1, y1, z0, y0 complex128) {
 // line.
 func (g *Geometry) Unbalance(s complex128) (m0, m2, d0, d2 complex128) {
 	z := g.SeriesImpedance(s)
-	zs := toSequence(z)
+	zs := SequenceMatrix(z)
 	ys, ok := inverse3(zs)
 	if ok && ys[1][1] != 0 {
 		m0, m2 = ys[0][1]/ys[1][1], ys[2][1]/ys[1][1]
@@ -396,50 +391,16 @@ func (g *Geometry) Unbalance(s complex128) (m0, m2, d0, d2 complex128) {
 }
 
 // ClarkeModes returns the diagonal of the Clarke-transformed series impedance and
-// shunt admittance matrices at s, in the order α, β, 0 (per metre). For a transposed
-// line they are exact modes: α = β = positive sequence, 0 = zero sequence.
-//
-//	T⁻¹ = [ 2/3  -1/3  -1/3 ;  0  1/√3  -1/√3 ;  1/3  1/3  1/3 ],  T = its inverse
+// shunt admittance matrices at s (per metre), in the modal order ClarkeGround,
+// ClarkeAlpha, ClarkeBeta of ClarkeModalMatrix. For a transposed line they are exact
+// modes: 0 = zero sequence, α = β = positive sequence.
 func (g *Geometry) ClarkeModes(s complex128) (z, y [3]complex128) {
 	zp, yp := g.PhaseMatrices(s)
-	zc, yc := clarke(zp), clarke(yp)
+	zc, yc := ClarkeModalMatrix(zp), ClarkeModalMatrix(yp)
 	for k := 0; k < 3; k++ {
 		z[k], y[k] = zc[k][k], yc[k][k]
 	}
 	return z, y
-}
-
-var clarkeInv = [3][3]complex128{
-	{2.0 / 3, -1.0 / 3, -1.0 / 3},
-	{0, complex(1/math.Sqrt(3), 0), complex(-1/math.Sqrt(3), 0)},
-	{1.0 / 3, 1.0 / 3, 1.0 / 3},
-}
-var clarkeT = [3][3]complex128{
-	{1, 0, 1},
-	{-0.5, complex(math.Sqrt(3)/2, 0), 1},
-	{-0.5, complex(-math.Sqrt(3)/2, 0), 1},
-}
-
-func clarke(m [3][3]complex128) [3][3]complex128 { return mul3(mul3(clarkeInv, m), clarkeT) }
-
-// symmetrical components: A = [1 1 1; 1 a² a; 1 a a²], a = exp(j2π/3), phases a, b, c
-// to sequences 0, 1, 2.
-var (
-	opA    = cmplx.Rect(1, 2*math.Pi/3)
-	seqA   = [3][3]complex128{{1, 1, 1}, {1, opA * opA, opA}, {1, opA, opA * opA}}
-	seqInv = [3][3]complex128{{1.0 / 3, 1.0 / 3, 1.0 / 3}, {1.0 / 3, opA / 3, opA * opA / 3}, {1.0 / 3, opA * opA / 3, opA / 3}}
-)
-
-func toSequence(m [3][3]complex128) [3][3]complex128 { return mul3(mul3(seqInv, m), seqA) }
-
-func mul3(a, b [3][3]complex128) [3][3]complex128 {
-	var r [3][3]complex128
-	for i := 0; i < 3; i++ {
-		for j := 0; j < 3; j++ {
-			r[i][j] = a[i][0]*b[0][j] + a[i][1]*b[1][j] + a[i][2]*b[2][j]
-		}
-	}
-	return r
 }
 
 // inverse3 inverts a complex 3×3 matrix by cofactors; ok is false if it is singular.

@@ -318,9 +318,9 @@ func explicitModel(t *testing.T, c refConstruction, s complex128) (z1, y1 comple
 	if c.Transposed {
 		z3, p3 = averaged3(z3), averaged3(p3)
 	}
-	zs := toSequence(z3)
+	zs := SequenceMatrix(z3)
 	ci, _ := inverse3(p3)
-	cs := toSequence(ci)
+	cs := SequenceMatrix(ci)
 	return zs[1][1], s * cs[1][1]
 }
 
@@ -445,8 +445,8 @@ func TestGeometryIdentities(t *testing.T) {
 			m0, m2, d0, d2 := g.Unbalance(s)
 			if c.Transposed {
 				// Clarke modes of a balanced matrix are the sequence values; no unbalance.
-				if relErr(zc[0], z1) > tol || relErr(zc[1], z1) > tol || relErr(zc[2], z0) > tol ||
-					relErr(yc[0], y1) > tol || relErr(yc[2], y0) > tol {
+				if relErr(zc[ClarkeAlpha], z1) > tol || relErr(zc[ClarkeBeta], z1) > tol || relErr(zc[ClarkeGround], z0) > tol ||
+					relErr(yc[ClarkeAlpha], y1) > tol || relErr(yc[ClarkeGround], y0) > tol {
 					t.Errorf("%s: Clarke modes %v %v differ from sequences", c.Name, zc, yc)
 				}
 				if cmplx.Abs(m0)+cmplx.Abs(m2)+cmplx.Abs(d0)+cmplx.Abs(d2) > tol {

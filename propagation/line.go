@@ -56,13 +56,7 @@ func (l Line) GammaZc(s complex128) (gamma, zc complex128) {
 	return gammaZc(z, y)
 }
 
-func gammaOf(z, y complex128) complex128 {
-	g := cmplx.Sqrt(z * y)
-	if real(g) < 0 {
-		g = -g
-	}
-	return g
-}
+func gammaOf(z, y complex128) complex128 { return PrincipalSqrt(z * y) }
 
 func gammaZc(z, y complex128) (gamma, zc complex128) {
 	gamma = gammaOf(z, y)
@@ -70,9 +64,44 @@ func gammaZc(z, y complex128) (gamma, zc complex128) {
 		return gamma, z / gamma
 	}
 	if y != 0 {
-		return 0, cmplx.Sqrt(z / y)
+		return 0, PrincipalSqrt(z / y)
 	}
 	return 0, 0
+}
+
+// PrincipalSqrt returns the principal square root of w, the one with Re >= 0 (the
+// branch of cmplx.Sqrt): the branch of γ = sqrt(zy) whose waves decay in the direction
+// they travel, and of a passive line's Zc = sqrt(z/y). By the half-angle formulas
+//
+//	r = |w|,  Re w >= 0:  t = sqrt((r + Re w)/2),  sqrt w = t + j·Im w/(2t)
+//	          Re w < 0:   t = sqrt((r − Re w)/2),  sqrt w = |Im w|/(2t) ± j·t (the sign of Im w,
+//	                      −0 counting as negative, as in cmplx.Sqrt)
+//
+// which avoid cmplx.Sqrt's rescaling and hypot (the kernels of freqscan and waves call
+// it at every frequency); where a part of w is beyond 1e150 in magnitude or both parts
+// below 1e-150 (r² could overflow or lose digits) it is cmplx.Sqrt. The two agree to a
+// few ulps.
+//
+// References:
+//
+//   - W. H. Press et al., Numerical Recipes, 3rd ed., Cambridge (2007), §5.5 (complex
+//     square root by the half-angle formulas); from memory.
+func PrincipalSqrt(w complex128) complex128 {
+	x, y := real(w), imag(w)
+	ax, ay := math.Abs(x), math.Abs(y)
+	if !(ax < 1e150 && ay < 1e150) || (ax < 1e-150 && ay < 1e-150) {
+		return cmplx.Sqrt(w)
+	}
+	r := math.Sqrt(x*x + y*y)
+	if x >= 0 {
+		t := math.Sqrt((r + x) / 2)
+		return complex(t, y/(2*t))
+	}
+	t := math.Sqrt((r - x) / 2)
+	if math.Signbit(y) {
+		t = -t
+	}
+	return complex(y/(2*t), t)
 }
 
 // Lossless returns the lossless surge impedance sqrt(L/C) (ohm) and propagation
@@ -124,12 +153,13 @@ func (l Line) Exact(s complex128) TwoPort {
 	if real(gl) <= 300 {
 		ch, sh = cmplx.Cosh(gl), cmplx.Sinh(gl)
 	} else {
-		// cosh(γl) = e^{γl}(1 + e^{-2γl})/2; factor out e^{Re γl}.
+		// cosh(γl) = e^{γl}·even/2 with even = 1 + e^{-2γl} (ExpForm); factor out
+		// e^{Re γl}, leaving e^{j Im γl}·even/2.
 		logScale = real(gl)
+		even, odd, _, _ := ExpForm(gl)
 		rot := cmplx.Exp(complex(0, imag(gl)))
-		e2 := cmplx.Exp(-2 * gl)
-		ch = rot * (1 + e2) / 2
-		sh = rot * (1 - e2) / 2
+		ch = rot * even / 2
+		sh = rot * odd / 2
 	}
 	return TwoPort{A: ch, B: zc * sh, C: sh / zc, D: ch, LogScale: logScale}
 }

@@ -118,3 +118,42 @@ func (p TwoPort) InputAdmittance(yr complex128) complex128 {
 func (p TwoPort) OutputAdmittance(zs complex128) complex128 {
 	return (p.C*zs + p.A) / (p.D*zs + p.B)
 }
+
+// ExpForm returns the exponential form of the hyperbolic functions of a uniform line of
+// electrical length gl = γ·l (dimensionless, Re gl >= 0 for a passive line), the form in
+// which the exact two-port cannot overflow however long and lossy the line:
+//
+//	x = e^{−γl},  m = |x| = e^{−Re γl} <= 1,
+//	even = 1 + x² = 2x·cosh γl,  odd = 1 − x² = 2x·sinh γl
+//
+// so that cosh γl = even/(2x) and sinh γl = odd/(2x); ExactExp builds the two-port from
+// them. x and m underflow to 0 for Re γl > ~745, where even = odd = 1. For |γl| much
+// below 1, odd loses digits to cancellation (relative error about 1e-16/|γl|): use
+// cosh and sinh there (Line.Exact does).
+//
+// References:
+//
+//   - L. V. Bewley, Traveling Waves on Transmission Systems, 2nd ed., Wiley (1951):
+//     the line's solution as forward and backward waves e^{∓γx}; from memory.
+func ExpForm(gl complex128) (even, odd, x complex128, m float64) {
+	sn, cs := math.Sincos(-imag(gl))
+	m = math.Exp(-real(gl))
+	x = complex(m*cs, m*sn)
+	x2 := x * x
+	return 1 + x2, 1 - x2, x, m
+}
+
+// ExactExp returns the exact two-port of a uniform line of electrical length gl = γ·l,
+// surge impedance zc (ohm) and surge admittance yc = 1/zc (S, given so that a caller
+// with γ and the per-length y can form it as y/γ without a division by zc), in the
+// exponential form of ExpForm: the elements multiplied by 2x = 2·e^{−γl},
+//
+//	A' = D' = 1 + x²,  B' = Zc·(1 − x²),  C' = (1 − x²)·Yc
+//
+// The true elements are A = A'/(2x) and so on; ratios of elements need no scaling, a
+// voltage ratio 1/(A + B·Yr) is 2x/(A' + B'·Yr). x and m = |x| are returned for that.
+// It allocates nothing and costs one exponential and one sine-cosine pair.
+func ExactExp(gl, zc, yc complex128) (a, b, c, x complex128, m float64) {
+	even, odd, x, m := ExpForm(gl)
+	return even, zc * odd, odd * yc, x, m
+}

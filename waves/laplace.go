@@ -388,24 +388,6 @@ func parallel(workers, n int, fn func(lo, hi int)) {
 	wg.Wait()
 }
 
-// principalSqrt returns the square root of w with a non-negative real part
-// (cmplx.Sqrt's branch), by the half-angle formulas; cmplx.Sqrt where the squares
-// could overflow or underflow.
-func principalSqrt(w complex128) complex128 {
-	a, b := real(w), imag(w)
-	q := a*a + b*b
-	if !(q > 1e-290 && q < 1e290) {
-		return cmplx.Sqrt(w)
-	}
-	r := math.Sqrt(q)
-	if a >= 0 {
-		t := math.Sqrt((r + a) / 2)
-		return complex(t, b/(2*t))
-	}
-	t := math.Sqrt((r - a) / 2)
-	return complex(math.Abs(b)/(2*t), math.Copysign(t, b))
-}
-
 // inv returns 1/z, by conj(z)/|z|² where that cannot overflow or underflow (three
 // times cheaper than the general complex division), else by the division.
 func inv(z complex128) complex128 {
@@ -451,20 +433,17 @@ func newEvaluator(net freqscan.Network, e Energisation) *evaluator {
 // (receiving), Y12 (transfer), in S.
 func (ev *evaluator) lineY(s complex128) (y11, y22, y12 complex128) {
 	if ev.single {
-		// Y11 = coth(γl)/Zc, Y12 = −1/(Zc·sinh γl) in terms of x = e^{−γl}, |x| < 1
-		// for Re s > 0, which cannot overflow: with 1/Zc = γ/z,
-		//	Y11 = (1 + x²)·γ / ((1 − x²)·z),  Y12 = −2x·γ / ((1 − x²)·z)
+		// Y11 = D/B = coth(γl)/Zc, Y12 = −1/B = −1/(Zc·sinh γl) of the exact two-port
+		// in the exponential form of propagation.ExpForm (x = e^{−γl}, |x| < 1 for
+		// Re s > 0, even = 1 + x², odd = 1 − x²), which cannot overflow: with 1/Zc = γ/z,
+		//	Y11 = even·γ / (odd·z),  Y12 = −2x·γ / (odd·z)
 		p := ev.rlgc
 		z := complex(p.R+real(s)*p.L, imag(s)*p.L)
 		y := complex(p.G+real(s)*p.C, imag(s)*p.C)
-		g := principalSqrt(z * y) // Re γ >= 0
-		gl := g * complex(ev.length, 0)
-		sn, cs := math.Sincos(-imag(gl))
-		m := math.Exp(-real(gl))
-		x := complex(m*cs, m*sn)
-		x2 := x * x
-		q := g * inv((1-x2)*z)
-		y11 = (1 + x2) * q
+		g := propagation.PrincipalSqrt(z * y) // Re γ >= 0
+		even, odd, x, _ := propagation.ExpForm(g * complex(ev.length, 0))
+		q := g * inv(odd*z)
+		y11 = even * q
 		return y11, y11, -2 * x * q
 	}
 	p := ev.net.Line.Exact(s)

@@ -7,50 +7,28 @@ import (
 	"github.com/telegrapher/telegrapher/propagation"
 )
 
-// Mode numbers of a transposed three-phase line in the Clarke (α, β, 0) frame: the
-// ground mode travels on the zero-sequence constants, the two aerial modes on the
-// positive-sequence ones.
+// Mode numbers of a transposed three-phase line in the Clarke (0, α, β) frame of
+// propagation.ClarkeMatrix: the ground mode travels on the zero-sequence constants, the
+// two aerial modes on the positive-sequence ones.
 const (
-	ModeGround = 0
-	ModeAlpha  = 1
-	ModeBeta   = 2
+	ModeGround = propagation.ClarkeGround
+	ModeAlpha  = propagation.ClarkeAlpha
+	ModeBeta   = propagation.ClarkeBeta
 )
 
-// clarke is the orthonormal Clarke transformation: v_modal = clarke · v_phase, rows
-// (0, α, β). Being orthonormal its inverse is its transpose, and a balanced phase
-// matrix (self Zs, mutual Zm) becomes diag(Zs+2Zm, Zs−Zm, Zs−Zm).
-//
-// References:
-//
-//   - E. Clarke, Circuit Analysis of A-C Power Systems, vol. I, Wiley (1943).
-var clarke = [3][3]float64{
-	{1 / math.Sqrt(3), 1 / math.Sqrt(3), 1 / math.Sqrt(3)},
-	{math.Sqrt(2.0 / 3.0), -1 / math.Sqrt(6), -1 / math.Sqrt(6)},
-	{0, 1 / math.Sqrt(2), -1 / math.Sqrt(2)},
-}
+// toModal returns the modal components of the phase quantities p, by the orthonormal
+// Clarke transformation of propagation (ClarkeToModal).
+func toModal(p [3]float64) [3]float64 { return propagation.ClarkeToModal(p) }
 
-// toModal returns clarke·p.
-func toModal(p [3]float64) (m [3]float64) {
-	for i := 0; i < 3; i++ {
-		m[i] = clarke[i][0]*p[0] + clarke[i][1]*p[1] + clarke[i][2]*p[2]
-	}
-	return m
-}
+// toPhase returns the phase quantities of the modal components m, the inverse of
+// toModal (propagation.ClarkeToPhase).
+func toPhase(m [3]float64) [3]float64 { return propagation.ClarkeToPhase(m) }
 
-// toPhase returns clarkeᵀ·m.
-func toPhase(m [3]float64) (p [3]float64) {
-	for i := 0; i < 3; i++ {
-		p[i] = clarke[0][i]*m[0] + clarke[1][i]*m[1] + clarke[2][i]*m[2]
-	}
-	return p
-}
-
-// balancedMatrix returns the phase-domain matrix clarkeᵀ·diag(zero, aerial, aerial)·clarke:
-// self (zero + 2·aerial)/3 and mutual (zero − aerial)/3.
+// balancedMatrix returns the phase-domain matrix Qᵀ·diag(zero, aerial, aerial)·Q of the
+// Clarke Q: self (zero + 2·aerial)/3 and mutual (zero − aerial)/3
+// (propagation.BalancedMatrix).
 func balancedMatrix(zero, aerial float64) [3][3]float64 {
-	self := (zero + 2*aerial) / 3
-	mut := (zero - aerial) / 3
-	return [3][3]float64{{self, mut, mut}, {mut, self, mut}, {mut, mut, self}}
+	return propagation.BalancedMatrix(zero, aerial)
 }
 
 // ModalSection is one line section of a transposed three-phase line in modal form:

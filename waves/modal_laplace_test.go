@@ -27,6 +27,7 @@ func onePoleLaplace(pos, zero propagation.Cascade, srcR, srcL, x0, rR, lR, lN fl
 	c := math.Log(float64(nFreq)*float64(nFreq)) / T
 	th := closeDeg * math.Pi / 180
 	lines := [3]propagation.Line{zero[0], pos[0], pos[0]}
+	clarke := propagation.ClarkeMatrix()
 	spec := make([][3]complex128, nFreq)
 	for k := 0; k < nFreq; k++ {
 		s := complex(c, float64(k)*dw)

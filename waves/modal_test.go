@@ -3,12 +3,15 @@ package waves
 import (
 	"math"
 	"testing"
+
+	"github.com/telegrapher/telegrapher/propagation"
 )
 
 // The Clarke transformation is orthonormal (Tᵀ·T = I) and diagonalises a balanced
 // matrix into (Zs + 2Zm, Zs − Zm, Zs − Zm). E. Clarke (1943); identity.
 func TestClarkeIdentities(t *testing.T) {
 	t.Parallel()
+	clarke := propagation.ClarkeMatrix()
 	const tol = 1e-14 // a few ulps of O(1) sums
 	for i := 0; i < 3; i++ {
 		for j := 0; j < 3; j++ {

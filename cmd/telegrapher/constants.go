@@ -258,11 +258,7 @@ func cascadeZc(p propagation.TwoPort) complex128 {
 	if p.C == 0 {
 		return 0
 	}
-	z := cmplx.Sqrt(p.B / p.C)
-	if real(z) < 0 {
-		z = -z
-	}
-	return z
+	return propagation.PrincipalSqrt(p.B / p.C)
 }
 
 // lumped returns the nominal pi, nominal T and short models of the line cut into n
