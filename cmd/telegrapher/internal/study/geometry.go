@@ -48,38 +48,38 @@ func geoErrorf(file, path, format string, a ...any) error {
 	return &Error{File: file, Key: path, Msg: fmt.Sprintf(format, a...)}
 }
 
-func init() {
-	// [conductors.NAME] runs before [line] and leaves the conductors for the geometry.
-	RegisterTable(TableHook{Name: "conductors", Stage: BeforeLine, Parse: func(ld *Loader, t *Table) error {
-		if !t.Present() {
-			return nil
-		}
-		conds, entries, err := ParseConductors(ld.File, t.Map())
-		if err != nil {
-			return err
-		}
-		ld.Set("conductors", conds)
-		for _, e := range entries {
-			ld.Note(e.Key, e.Value, e.How)
-		}
+// conductors reads [conductors.NAME] (before [line]) and returns the conductor types
+// for the geometries; nil when the table is absent or has a problem (recorded).
+func (ld *Loader) conductors(t *Table) map[string]propagation.Conductor {
+	if !t.Present() {
 		return nil
-	}})
-	// [line.geometry] and [line.sections.geometry]: the section's positive- and
-	// zero-sequence constants from the tower.
-	RegisterSection(SectionHook{Key: "geometry", Build: func(ld *Loader, section, sub *Table) (pos, zero propagation.Constants, err error) {
-		if !sub.Present() {
-			return nil, nil, geoErrorf(ld.File, sub.Path(), "must be a table [%s]", sub.Path())
-		}
-		conds, _ := ld.Get("conductors").(map[string]propagation.Conductor)
-		g, entries, err := ParseGeometry(ld.File, sub.Path(), sub.Map(), section.Map(), conds, ld.Study.Frequency)
-		if err != nil {
-			return nil, nil, err
-		}
-		for _, e := range entries {
-			ld.Note(e.Key, e.Value, e.How)
-		}
-		return g.Positive(), g.Zero(), nil
-	}})
+	}
+	conds, entries, err := ParseConductors(ld.File, t.Map())
+	if err != nil {
+		ld.Fail(t.Path(), err)
+		return nil
+	}
+	for _, e := range entries {
+		ld.Note(e.Key, e.Value, e.How)
+	}
+	return conds
+}
+
+// geometry reads [line.geometry] or a section's geometry (sub, in the section's table)
+// against the conductor types conds and returns the section's positive- and
+// zero-sequence constants from the tower.
+func (ld *Loader) geometry(section, sub *Table, conds map[string]propagation.Conductor) (pos, zero propagation.Constants, err error) {
+	if !sub.Present() {
+		return nil, nil, geoErrorf(ld.File, sub.Path(), "must be a table [%s]", sub.Path())
+	}
+	g, entries, err := ParseGeometry(ld.File, sub.Path(), sub.Map(), section.Map(), conds, ld.Study.Frequency)
+	if err != nil {
+		return nil, nil, err
+	}
+	for _, e := range entries {
+		ld.Note(e.Key, e.Value, e.How)
+	}
+	return g.Positive(), g.Zero(), nil
 }
 
 // ParseConductors reads the [conductors] table: NAME -> {outer_diameter_mm,

@@ -15,13 +15,10 @@ type LoadingSettings struct {
 	ThermalRating float64 // A per phase; 0 = no thermal limit
 }
 
-func init() {
-	RegisterTable(TableHook{Name: "loading", Stage: AfterModels, Parse: parseLoading})
-}
-
-func parseLoading(ld *Loader, t *Table) error {
+// loading reads [loading] into Study.Loading.
+func (ld *Loader) loading(t *Table) {
 	if !t.Present() {
-		return nil
+		return
 	}
 	t.Known("thermal_rating_a")
 	if a, ok := t.Float("thermal_rating_a"); ok {
@@ -30,5 +27,4 @@ func parseLoading(ld *Loader, t *Table) error {
 		ld.Study.Loading.ThermalRating = a
 		ld.Note("loading.thermal_rating_a", fmt.Sprintf("%g A per phase = %.4g MVA at voltage_kv", a, 1.7320508075688772*ld.Study.Voltage*a/1e6), "given")
 	}
-	return nil
 }

@@ -17,8 +17,8 @@ package study
 //	arresters_kv = [330, 336, 360]     # rated voltages Ur (rms kV) of arresters at both ends
 //
 // The switching targets need zero-sequence data, and min_margin_pct needs
-// switching.siwl_kv. Both tables are parsed through the loader's extension point
-// (RegisterTable); the parsed values are attached to the study (Study.Remedy).
+// switching.siwl_kv. The loader reads [levers] first and hands them to [targets],
+// after [switching]; both are attached to the study (Study.Remedy).
 
 import (
 	"fmt"
@@ -83,20 +83,12 @@ const (
 	maxArresterKV = 2000
 )
 
-func init() {
-	RegisterTable(TableHook{Name: "levers", Stage: AfterModels, Parse: parseLevers})
-	RegisterTable(TableHook{Name: "targets", Stage: AfterModels, Parse: parseTargets})
-}
-
-// parseLevers reads [levers]; it runs before [switching] and [targets] (hooks run by
-// name) and leaves its result for parseTargets.
-func parseLevers(ld *Loader, t *Table) error {
-	var lv Levers
+// levers reads [levers] and returns them with whether the table is given, for
+// targets.
+func (ld *Loader) levers(t *Table) (lv Levers, given bool) {
 	lv.ControlledSigma = 1e-3
 	if !t.Present() {
-		ld.Set("levers", lv)
-		ld.Set("levers.present", false)
-		return nil
+		return lv, false
 	}
 	t.Known(leverKeys...)
 	rng := func(key string, limit, least float64, unitName string, unit float64, what string) *Range {
@@ -167,21 +159,17 @@ func parseLevers(ld *Loader, t *Table) error {
 	if !ld.Failed() && lv.ReactorSending == nil && lv.ReactorReceiving == nil && lv.Preinsertion == nil && !lv.Controlled && lv.ArrestersV == nil {
 		ld.Errorf(t.Path(), "gives no lever; give at least one of %s (or leave out [levers])", strings.Join(leverKeys, ", "))
 	}
-	ld.Set("levers", lv)
-	ld.Set("levers.present", true)
-	return nil
+	return lv, true
 }
 
-// parseTargets reads [targets] (after [levers] and [switching]) and attaches both
-// tables to the study.
-func parseTargets(ld *Loader, t *Table) error {
-	lv, _ := ld.Get("levers").(Levers)
-	leversGiven, _ := ld.Get("levers.present").(bool)
+// targets reads [targets] (after [switching]) and attaches it with the levers lv
+// (leversGiven: [levers] is in the file) to the study.
+func (ld *Loader) targets(t *Table, lv Levers, leversGiven bool) {
 	if !t.Present() {
 		if leversGiven {
 			ld.Errorf("levers", "needs [targets]: the search looks for the cheapest change that meets them; give e.g. [targets] max_open_end_pu = 1.05")
 		}
-		return nil
+		return
 	}
 	t.Known(targetKeys...)
 	var tg Targets
@@ -222,8 +210,7 @@ func parseTargets(ld *Loader, t *Table) error {
 		ld.Errorf(t.Path(), "gives no target; give at least one of %s", strings.Join(targetKeys, ", "))
 	}
 	if ld.Failed() {
-		return nil
+		return
 	}
 	ld.Study.SetRemedy(RemedySpec{Present: true, Targets: tg, Levers: lv})
-	return nil
 }

@@ -61,31 +61,27 @@ type SwitchingOptions struct {
 	DeadTime float64
 }
 
-func init() {
-	RegisterTable(TableHook{
-		Name:  "switching",
-		Stage: AfterModels,
-		Parse: func(ld *Loader, t *Table) error {
-			set, opt, seen, err := ParseSwitching(ld.File, t.Map(), ld.Study.Frequency, ld.Study.Us)
-			if err != nil {
-				return err
-			}
-			ld.Study.Switching = set
-			ld.Study.SetSwitchingOptions(opt)
-			// A neutral reactor Ln under a line-connected reactor bank adds 3·Ln to
-			// the bank's zero-sequence impedance (all three phase currents return
-			// through it); the positive sequence does not see it.
-			if zn := ld.Study.ZeroNetwork; zn != nil {
-				for e, l := range opt.NeutralReactorL {
-					zn.ReactorNeutral[e] = 3 * l
-				}
-			}
-			for _, e := range seen {
-				ld.Note(e.Key, e.Value, e.How)
-			}
-			return nil
-		},
-	})
+// switching reads [switching] (with the models built) into Study.Switching and the
+// study's switching options.
+func (ld *Loader) switching(t *Table) {
+	set, opt, seen, err := ParseSwitching(ld.File, t.Map(), ld.Study.Frequency, ld.Study.Us)
+	if err != nil {
+		ld.Fail(t.Path(), err)
+		return
+	}
+	ld.Study.Switching = set
+	ld.Study.SetSwitchingOptions(opt)
+	// A neutral reactor Ln under a line-connected reactor bank adds 3·Ln to the bank's
+	// zero-sequence impedance (all three phase currents return through it); the
+	// positive sequence does not see it.
+	if zn := ld.Study.ZeroNetwork; zn != nil {
+		for e, l := range opt.NeutralReactorL {
+			zn.ReactorNeutral[e] = 3 * l
+		}
+	}
+	for _, e := range seen {
+		ld.Note(e.Key, e.Value, e.How)
+	}
 }
 
 // SwitchingOptions returns the study's [switching] keys beyond the contract's (the
