@@ -157,34 +157,6 @@ func required(t *Table, key, example string) float64 {
 	return v
 }
 
-// Bounds of the core keys: beyond them a value is a typing error rather than a power
-// line, or too small for the numerics to mean anything (a subnormal resistance, a
-// frequency of 1e-320 Hz). README's key tables list them.
-const (
-	minFrequencyHz = 1    // system frequency
-	maxFrequencyHz = 1e4  //
-	minVoltageKV   = 1    // line-to-line
-	maxVoltageKV   = 2000 //
-	minLengthKm    = 0.01 // a line or section: 10 m
-	maxLengthKm    = 1e4  //
-	maxMVA         = 1e7  // powers
-	maxScanHz      = 1e7  // scan frequencies
-	minScanHz      = 1e-3 //
-)
-
-// Bounds of the per-length constants, in the units of their keys; r and g may also be
-// 0 (lossless). The same hold for the zero sequence and for every section; x and b are
-// held to the l and c bounds at frequency_hz. The lower l and c bounds are low enough
-// that a unit slip (uF/km in the nF/km key, H/km in the mH/km key) meets the speed
-// of light first, whose message says what is wrong: at either lower bound no
-// partner within the other's bounds gives a line slower than light.
-var (
-	rBounds = [2]float64{1e-6, 1000} // ohm/km
-	lBounds = [2]float64{1e-4, 100}  // mH/km
-	cBounds = [2]float64{1e-3, 1e4}  // nF/km
-	gBounds = [2]float64{1e-6, 1e4}  // uS/km (far above any line: tests force overflow with it)
-)
-
 func (ld *Loader) system(root *Table) {
 	st := ld.Study
 	if s, ok := root.String("title"); ok {
@@ -192,27 +164,21 @@ func (ld *Loader) system(root *Table) {
 		ld.Note("title", fmt.Sprintf("%q", s), "given")
 	}
 	f := required(root, "frequency_hz", "frequency_hz = 50")
-	root.Positive("frequency_hz", f)
-	root.AtMost("frequency_hz", f, maxFrequencyHz)
-	root.Between("frequency_hz", f, minFrequencyHz, maxFrequencyHz)
+	root.Check("frequency_hz", f)
 	mv := ld.mark()
 	v := required(root, "voltage_kv", "voltage_kv = 400")
-	root.Positive("voltage_kv", v)
-	root.AtMost("voltage_kv", v, maxVoltageKV)
-	root.Between("voltage_kv", v, minVoltageKV, maxVoltageKV)
+	root.Check("voltage_kv", v)
 	vOK := !ld.failedSince(mv)
-	st.Frequency, st.Voltage = f, v*1e3
-	ld.Note("frequency_hz", fmt.Sprintf("%g Hz", f), "given")
+	st.Frequency, st.Voltage = root.SI("frequency_hz", f), root.SI("voltage_kv", v)
+	ld.noteNum(root, "frequency_hz", f, "given")
 	ld.Note("voltage_kv", fmt.Sprintf("%g kV line-to-line rms", v), "given")
-	if us, ok := root.Float("us_kv"); ok {
-		mu := ld.mark()
-		root.Positive("us_kv", us)
-		root.AtMost("us_kv", us, maxVoltageKV)
+	mu := ld.mark()
+	if us, ok := root.Num("us_kv"); ok {
 		if vOK && !ld.failedSince(mu) && us < v {
 			root.Errorf("us_kv", "the highest voltage for equipment must be >= voltage_kv (%g), got %g", v, us)
 		}
-		st.Us = us * 1e3
-		ld.Note("us_kv", fmt.Sprintf("%g kV", us), "given")
+		st.Us = root.SI("us_kv", us)
+		ld.noteNum(root, "us_kv", us, "given")
 	} else {
 		st.Us = st.Voltage
 		ld.Note("us_kv", fmt.Sprintf("%g kV", v), "default: voltage_kv")
@@ -311,10 +277,8 @@ func (ld *Loader) section(t *Table, named bool, conds map[string]propagation.Con
 		name, _ = t.String("name")
 	}
 	length := required(t, "length_km", "length_km = 320")
-	t.Positive("length_km", length)
-	t.AtMost("length_km", length, maxLengthKm)
-	t.Between("length_km", length, minLengthKm, maxLengthKm)
-	ld.Note(t.KeyPath("length_km"), fmt.Sprintf("%g km", length), "given")
+	t.Check("length_km", length)
+	ld.noteNum(t, "length_km", length, "given")
 	if named && name != "" {
 		ld.Note(t.KeyPath("name"), fmt.Sprintf("%q", name), "given")
 	}
@@ -335,9 +299,9 @@ func (ld *Loader) section(t *Table, named bool, conds map[string]propagation.Con
 			return nil, nil
 		}
 		ld.plausible(t, name, p, z, true)
-		pos = &propagation.Line{Name: name, Length: length * 1e3, Constants: p}
+		pos = &propagation.Line{Name: name, Length: t.SI("length_km", length), Constants: p}
 		if z != nil {
-			zero = &propagation.Line{Name: name, Length: length * 1e3, Constants: z}
+			zero = &propagation.Line{Name: name, Length: t.SI("length_km", length), Constants: z}
 		}
 		return pos, zero
 	}
@@ -361,9 +325,9 @@ func (ld *Loader) section(t *Table, named bool, conds map[string]propagation.Con
 	if ld.failedSince(m) {
 		return nil, nil
 	}
-	pos = &propagation.Line{Name: name, Length: length * 1e3, Constants: rl}
+	pos = &propagation.Line{Name: name, Length: t.SI("length_km", length), Constants: rl}
 	if anyZero {
-		zero = &propagation.Line{Name: name, Length: length * 1e3, Constants: z}
+		zero = &propagation.Line{Name: name, Length: t.SI("length_km", length), Constants: z}
 	}
 	return pos, zero
 }
@@ -381,26 +345,21 @@ func (ld *Loader) rlgc(t *Table, seq, what string) propagation.RLGC {
 			t.Errorf(key, "missing: give the %s series resistance, e.g. %s", what, ex)
 		}
 	}
-	if r, ok := t.Float(rk); ok {
-		t.NonNegative(rk, r)
-		t.ZeroOr(rk, r, rBounds[0], rBounds[1])
-		p.R = r / 1e3
-		ld.Note(t.KeyPath(rk), fmt.Sprintf("%g ohm/km", r), "given")
+	if r, ok := t.Num(rk); ok {
+		p.R = r / 1e3 // a division, not t.SI: r*1e-3 may differ from r/1e3 in the last bit
+		ld.noteNum(t, rk, r, "given")
 	} else if !t.Has(rk) {
 		missing(rk, rk+" = 0.03")
 	}
 
-	switch t.Exclusive(lk, xk) {
+	switch t.Exclusive(lk, t.key(lk).Alt) {
 	case lk:
-		l, _ := t.Float(lk)
-		t.Positive(lk, l)
-		t.Between(lk, l, lBounds[0], lBounds[1])
-		p.L = l * 1e-6
-		ld.Note(t.KeyPath(lk), fmt.Sprintf("%g mH/km", l), "given")
+		l, _ := t.Num(lk)
+		p.L = t.SI(lk, l)
+		ld.noteNum(t, lk, l, "given")
 	case xk:
-		x, _ := t.Float(xk)
-		t.Positive(xk, x)
-		ld.throughOmega(t, xk, x, w*1e-3, lBounds, "mH/km", "ohm/km")
+		x, _ := t.Num(xk)
+		ld.throughOmega(t, xk, x, w*1e-3, t.key(lk))
 		p.L = x / w / 1e3
 		ld.Note(t.KeyPath(lk), fmt.Sprintf("%.6g mH/km", p.L*1e6), fmt.Sprintf("from %s = %g ohm/km at %g Hz", xk, x, ld.Study.Frequency))
 	default:
@@ -412,17 +371,14 @@ func (ld *Loader) rlgc(t *Table, seq, what string) propagation.RLGC {
 			}
 		}
 	}
-	switch t.Exclusive(ck, bk) {
+	switch t.Exclusive(ck, t.key(ck).Alt) {
 	case ck:
-		c, _ := t.Float(ck)
-		t.Positive(ck, c)
-		t.Between(ck, c, cBounds[0], cBounds[1])
-		p.C = c * 1e-12
-		ld.Note(t.KeyPath(ck), fmt.Sprintf("%g nF/km", c), "given")
+		c, _ := t.Num(ck)
+		p.C = t.SI(ck, c)
+		ld.noteNum(t, ck, c, "given")
 	case bk:
-		b, _ := t.Float(bk)
-		t.Positive(bk, b)
-		ld.throughOmega(t, bk, b, w*1e-3, cBounds, "nF/km", "uS/km")
+		b, _ := t.Num(bk)
+		ld.throughOmega(t, bk, b, w*1e-3, t.key(ck))
 		p.C = b * 1e-6 / w / 1e3
 		ld.Note(t.KeyPath(ck), fmt.Sprintf("%.6g nF/km", p.C*1e12), fmt.Sprintf("from %s = %g uS/km at %g Hz", bk, b, ld.Study.Frequency))
 	default:
@@ -434,23 +390,23 @@ func (ld *Loader) rlgc(t *Table, seq, what string) propagation.RLGC {
 			}
 		}
 	}
-	if g, ok := t.Float(gk); ok {
-		t.NonNegative(gk, g)
-		t.ZeroOr(gk, g, gBounds[0], gBounds[1])
-		p.G = g * 1e-9
-		ld.Note(t.KeyPath(gk), fmt.Sprintf("%g uS/km", g), "given")
+	if g, ok := t.Num(gk); ok {
+		p.G = t.SI(gk, g)
+		ld.noteNum(t, gk, g, "given")
 	} else {
-		ld.Note(t.KeyPath(gk), "0 uS/km", "default")
+		ld.noteNum(t, gk, 0, "default")
 	}
 	return p
 }
 
-// throughOmega checks a reactance or susceptance v given at frequency_hz against the
-// bounds of the inductance or capacitance it stands for (v = k·x with k = ω in the
-// units at hand), and names the key as given with the bounds in its own unit.
-func (ld *Loader) throughOmega(t *Table, key string, v, k float64, b [2]float64, unit, vunit string) {
-	if x := v / k; !(x >= b[0] && x <= b[1]) {
+// throughOmega checks a reactance or susceptance v at key, given at frequency_hz,
+// against the bounds of the inductance or capacitance (the schema's key of) it stands
+// for (v = k·x with k = ω in the units at hand), and names the key as given with the
+// bounds in its own unit.
+func (ld *Loader) throughOmega(t *Table, key string, v, k float64, of *Key) {
+	b := of.Bounds
+	if x := v / k; !(x >= b.Lo && x <= b.Hi) {
 		t.Errorf(key, "must be between %.6g and %.6g %s (%s to %s %s at %g Hz), got %s",
-			b[0]*k, b[1]*k, vunit, num(b[0]), num(b[1]), unit, ld.Study.Frequency, num(v))
+			b.Lo*k, b.Hi*k, t.key(key).Unit, num(b.Lo), num(b.Hi), of.Unit, ld.Study.Frequency, num(v))
 	}
 }

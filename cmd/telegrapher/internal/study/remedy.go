@@ -76,22 +76,17 @@ func (st *Study) Remedy() RemedySpec { return st.remedy }
 // SetRemedy sets them, for studies built in code.
 func (st *Study) SetRemedy(r RemedySpec) { st.remedy = r }
 
-// Limits of the remedy tables (values beyond are typing errors).
-const (
-	maxLeverMvar  = 1e5 // a reactor, Mvar
-	maxLeverOhm   = 1e5 // a pre-insertion resistor, ohm
-	maxArresterKV = 2000
-)
-
 // levers reads [levers] and returns them with whether the table is given, for
 // targets.
 func (ld *Loader) levers(t *Table) (lv Levers, given bool) {
-	lv.ControlledSigma = 1e-3
+	lv.ControlledSigma = t.SI("controlled_sigma_ms", t.key("controlled_sigma_ms").Def)
 	if !t.Present() {
 		return lv, false
 	}
 	t.Known(leverKeys...)
-	rng := func(key string, limit, least float64, unitName string, unit float64, what string) *Range {
+	rng := func(key string, what string) *Range {
+		k := t.key(key)
+		limit, least, unitName := k.Bounds.Hi, k.Bounds.Lo, k.Unit
 		v, ok := t.Floats(key)
 		if !ok {
 			return nil
@@ -109,37 +104,36 @@ func (ld *Loader) levers(t *Table) (lv Levers, given bool) {
 			return nil
 		}
 		ld.Note(t.KeyPath(key), fmt.Sprintf("none, or %s to %s %s", num(v[0]), num(v[1]), what), "given")
-		return &Range{Min: v[0] * unit, Max: v[1] * unit}
+		return &Range{Min: t.SI(key, v[0]), Max: t.SI(key, v[1])}
 	}
-	lv.ReactorSending = rng("reactor_mvar_sending", maxLeverMvar, minShuntMvar, "Mvar", 1e6, "Mvar line-connected at the sending end")
-	lv.ReactorReceiving = rng("reactor_mvar_receiving", maxLeverMvar, minShuntMvar, "Mvar", 1e6, "Mvar line-connected at the receiving end")
-	lv.Preinsertion = rng("preinsertion_ohm", maxLeverOhm, 1, "ohm", 1, "ohm pre-insertion resistor")
+	lv.ReactorSending = rng("reactor_mvar_sending", "Mvar line-connected at the sending end")
+	lv.ReactorReceiving = rng("reactor_mvar_receiving", "Mvar line-connected at the receiving end")
+	lv.Preinsertion = rng("preinsertion_ohm", "ohm pre-insertion resistor")
 	if b, ok := t.Bool("controlled_closing"); ok {
 		lv.Controlled = b
 		ld.Note(t.KeyPath("controlled_closing"), fmt.Sprint(b), "given")
 	}
-	if s, ok := t.Float("controlled_sigma_ms"); ok {
-		t.NonNegative("controlled_sigma_ms", s)
-		t.AtMost("controlled_sigma_ms", s, 20)
+	if s, ok := t.Num("controlled_sigma_ms"); ok {
 		if !ld.Failed() && !lv.Controlled {
 			t.Errorf("controlled_sigma_ms", "applies to controlled closing only; give controlled_closing = true or leave it out")
 		}
-		lv.ControlledSigma = s * 1e-3
-		ld.Note(t.KeyPath("controlled_sigma_ms"), fmt.Sprintf("%s ms", num(s)), "given")
+		lv.ControlledSigma = t.SI("controlled_sigma_ms", s)
+		ld.noteNum(t, "controlled_sigma_ms", s, "given")
 	} else if lv.Controlled {
-		ld.Note(t.KeyPath("controlled_sigma_ms"), "1 ms", "default")
+		ld.noteNum(t, "controlled_sigma_ms", t.key("controlled_sigma_ms").Def, "default")
 	}
 	if v, ok := t.Floats("arresters_kv"); ok {
 		if len(v) == 0 {
 			t.Errorf("arresters_kv", "must list at least one rated voltage (rms kV), e.g. [336, 360]")
 		}
+		b := t.key("arresters_kv").Bounds
 		for i, x := range v {
-			if !(x > 0) || x > maxArresterKV {
-				t.Errorf(fmt.Sprintf("arresters_kv[%d]", i), "must be a rated voltage > 0 and at most %d kV, got %s", maxArresterKV, num(x))
+			if !(x > 0) || x > b.Hi {
+				t.Errorf(fmt.Sprintf("arresters_kv[%d]", i), "must be a rated voltage > 0 and at most %s kV, got %s", num(b.Hi), num(x))
 				break
 			}
-			if x < arresterKVBounds[0] {
-				t.Errorf(fmt.Sprintf("arresters_kv[%d]", i), "must be a rated voltage between %s and %d kV, got %s", num(arresterKVBounds[0]), maxArresterKV, num(x))
+			if x < b.Lo {
+				t.Errorf(fmt.Sprintf("arresters_kv[%d]", i), "must be a rated voltage between %s and %s kV, got %s", num(b.Lo), num(b.Hi), num(x))
 				break
 			}
 		}
@@ -150,7 +144,7 @@ func (ld *Loader) levers(t *Table) (lv Levers, given bool) {
 				if i > 0 && x == v[i-1] {
 					continue
 				}
-				lv.ArrestersV = append(lv.ArrestersV, x*1e3)
+				lv.ArrestersV = append(lv.ArrestersV, t.SI("arresters_kv", x))
 				kvs = append(kvs, num(x))
 			}
 			ld.Note(t.KeyPath("arresters_kv"), "none, or arresters at both line ends rated "+strings.Join(kvs, ", ")+" kV", "given")
@@ -173,15 +167,11 @@ func (ld *Loader) targets(t *Table, lv Levers, leversGiven bool) {
 	}
 	t.Known(targetKeys...)
 	var tg Targets
-	if v, ok := t.Float("max_open_end_pu"); ok {
-		t.Positive("max_open_end_pu", v)
-		t.Between("max_open_end_pu", v, 0.5, 10)
+	if v, ok := t.Num("max_open_end_pu"); ok {
 		tg.HasOpenEnd, tg.OpenEndPU = true, v
 		ld.Note(t.KeyPath("max_open_end_pu"), fmt.Sprintf("%s pu (no-load |Vr/Vs| at %g Hz)", num(v), ld.Study.Frequency), "given")
 	}
-	if v, ok := t.Float("max_gain_watched"); ok {
-		t.Positive("max_gain_watched", v)
-		t.Between("max_gain_watched", v, 0.1, 1e4)
+	if v, ok := t.Num("max_gain_watched"); ok {
 		tg.HasGainWatched, tg.GainWatched = true, v
 		ld.Note(t.KeyPath("max_gain_watched"), fmt.Sprintf("%s (|Vr/E| near the watched harmonics)", num(v)), "given")
 	}
@@ -190,15 +180,12 @@ func (ld *Loader) targets(t *Table, lv Levers, leversGiven bool) {
 			t.Errorf(key, "needs the statistical switching study, which needs zero-sequence data: give line.r0_ohm_per_km, l0_mh_per_km (or x0_ohm_per_km) and c0_nf_per_km (or b0_us_per_km), or [line.geometry]")
 		}
 	}
-	if v, ok := t.Float("max_u2_pu"); ok {
-		t.Positive("max_u2_pu", v)
-		t.Between("max_u2_pu", v, 1, 10)
+	if v, ok := t.Num("max_u2_pu"); ok {
 		zeroNeeded("max_u2_pu")
 		tg.HasU2, tg.U2PU = true, v
 		ld.Note(t.KeyPath("max_u2_pu"), fmt.Sprintf("%s pu (IEC 60071-1 base)", num(v)), "given")
 	}
-	if v, ok := t.Float("min_margin_pct"); ok {
-		t.Between("min_margin_pct", v, -100, 1000)
+	if v, ok := t.Num("min_margin_pct"); ok {
 		zeroNeeded("min_margin_pct")
 		if !ld.Failed() && !(ld.Study.Switching.SIWL > 0) {
 			t.Errorf("min_margin_pct", "needs switching.siwl_kv (the withstand level the margin is taken to); give e.g. [switching] siwl_kv = 1050")
