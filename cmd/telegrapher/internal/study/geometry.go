@@ -14,9 +14,9 @@ import (
 
 // Keys of the study file for the geometry, as the contract writes them.
 var (
-	conductorKeys = []string{"outer_diameter_mm", "core_diameter_mm", "dc_ohm_per_km"}
-	geometryKeys  = []string{"earth_resistivity_ohm_m", "transposed", "phases", "earth_wires"}
-	wireKeys      = []string{"x_m", "height_m", "sag_m", "conductor", "bundle", "bundle_spacing_mm"}
+	conductorKeys = tableKeys("conductors.NAME")
+	geometryKeys  = tableKeys("line.geometry")
+	wireKeys      = tableKeys("line.geometry.phases")
 
 	// GeometryExclusiveKeys are the per-length constants of a line (or section) that a
 	// geometry replaces; giving both is an error.

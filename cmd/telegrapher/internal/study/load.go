@@ -45,16 +45,16 @@ var (
 	rootKeys     = []string{"title", "frequency_hz", "voltage_kv", "us_kv", "line", "source", "shunt", "receiving", "scan", "energise", "conductors", "levers", "loading", "switching", "targets"}
 	constantKeys = []string{"r_ohm_per_km", "l_mh_per_km", "x_ohm_per_km", "c_nf_per_km", "b_us_per_km", "g_us_per_km"}
 	zeroKeys     = []string{"r0_ohm_per_km", "l0_mh_per_km", "x0_ohm_per_km", "c0_nf_per_km", "b0_us_per_km", "g0_us_per_km"}
-	sectionKeys  = append(append([]string{"name", "length_km"}, constantKeys...), zeroKeys...)
+	sectionKeys  = tableKeys("line") // name (of a section), length_km, the constants
 	lineOnlyKeys = []string{"sections"}
 	// geometryKey is the sub-table of [line] and of every [[line.sections]] entry that
 	// gives the section's constants from the tower instead of the per-length keys.
 	geometryKey   = "geometry"
-	sourceKeys    = []string{"short_circuit_mva", "x_over_r", "r_ohm", "l_mh", "x_ohm", "x0_over_x1"}
-	shuntKeys     = []string{"name", "at", "connection", "mvar", "q_factor"}
-	receivingKeys = []string{"load_mw", "load_mvar", "short_circuit_mva", "x_over_r", "x0_over_x1"}
-	scanKeys      = []string{"f_min_hz", "f_max_hz", "points", "grid", "watch_harmonics", "gain_limit", "watch_band_pct", "background_pct", "planning_pct", "short_circuit_mva_range", "steps", "far_system"}
-	energiseKeys  = []string{"waveform", "close_deg", "trapped_pu", "duration_ms", "time_step_us", "method"}
+	sourceKeys    = tableKeys("source")
+	shuntKeys     = tableKeys("shunt")
+	receivingKeys = tableKeys("receiving")
+	scanKeys      = tableKeys("scan")
+	energiseKeys  = tableKeys("energise")
 )
 
 // Load reads and validates the study file at path. Every error is an *Error naming

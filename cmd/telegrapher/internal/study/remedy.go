@@ -28,9 +28,8 @@ import (
 
 // Keys of [targets] and [levers].
 var (
-	targetKeys = []string{"max_open_end_pu", "max_gain_watched", "max_u2_pu", "min_margin_pct"}
-	leverKeys  = []string{"reactor_mvar_sending", "reactor_mvar_receiving", "preinsertion_ohm",
-		"controlled_closing", "controlled_sigma_ms", "arresters_kv"}
+	targetKeys = tableKeys("targets")
+	leverKeys  = tableKeys("levers")
 )
 
 // Targets are the limits a remedy must meet; a Has flag is false for a target not given.

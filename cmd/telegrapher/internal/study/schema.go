@@ -99,7 +99,8 @@ var Schema = []*Key{
 	{Name: "voltage_kv", Unit: "kV", SI: 1e3, Bounds: Bounds{Lo: 1, Hi: 2000, Positive: true, AtMostFirst: true}, Default: "required", Rule: "{range}; the source EMF is at this voltage"},
 	{Name: "us_kv", Unit: "kV", SI: 1e3, Bounds: Bounds{Hi: 2000, Positive: true, AtMostFirst: true}, Default: "`voltage_kv`", Rule: "highest voltage for equipment (IEC 60071-1), `voltage_kv` to {hi}"},
 
-	// [line], and each [[line.sections]] entry
+	// [line], and each [[line.sections]] entry (name: a section's only)
+	{Table: "line", Name: "name", Unit: "text", Hidden: true},
 	{Table: "line", Name: "length_km", Unit: "km", SI: 1e3, Bounds: Bounds{Lo: 0.01, Hi: 1e4, Positive: true, AtMostFirst: true}, Default: "required", Rule: "{range}"},
 	{Table: "line", Name: "r_ohm_per_km", Unit: "ohm/km", SI: 1e-3, Bounds: Bounds{Lo: 1e-6, Hi: 1000, ZeroOK: true, NonNegative: true}, Default: "required", Rule: "0 (lossless) or {lo} to {hi}; positive-sequence series resistance"},
 	{Table: "line", Name: "l_mh_per_km", Unit: "mH/km", SI: 1e-6, Bounds: Bounds{Lo: 1e-4, Hi: 100, Positive: true}, Alt: "x_ohm_per_km",
@@ -129,12 +130,12 @@ var Schema = []*Key{
 	{Table: "source", Name: "x0_over_x1", SI: 1, Bounds: Bounds{Lo: 0.01, Hi: 100, Positive: true}, Def: 1, DocUnit: "ratio", Rule: "{range}, default 1: zero- over positive-sequence source impedance"},
 
 	// [[shunt]]
+	{Table: "shunt", Name: "name", Rule: "optional text"},
 	{Table: "shunt", Name: "at", Rule: "`\"sending\"` or `\"receiving\"` (required)"},
 	{Table: "shunt", Name: "connection", Rule: "`\"line\"` (switched with the line, the usual EHV reactor) or `\"bus\"` (required)"},
 	{Table: "shunt", Name: "mvar", Unit: "Mvar", SI: 1e6, Bounds: Bounds{Lo: 1e-3, Hi: 1e5},
 		Rule: "rating at `voltage_kv` and `frequency_hz`, > 0 reactor, < 0 capacitor, {range} in size: X = V²/\\|Q\\|, L = X/ω or C = 1/(ωX)"},
 	{Table: "shunt", Name: "q_factor", SI: 1, Bounds: Bounds{Lo: 1, Hi: 1e5, Positive: true}, Rule: "optional, {range}: X/R at `frequency_hz`, R = X/q in series, constant; absent = lossless"},
-	{Table: "shunt", Name: "name", Rule: "optional text"},
 
 	// [receiving]
 	{Table: "receiving", Name: "load_mw", Unit: "MW", SI: 1e6, Bounds: Bounds{Lo: 1e-3, Hi: 1e7, ZeroOK: true, NonNegative: true}, Rule: "{range}: constant-impedance load, R = V²/P"},
@@ -247,6 +248,18 @@ var Schema = []*Key{
 	{Table: "levers", Name: "controlled_sigma_ms", Unit: "ms", SI: 1e-3, Bounds: Bounds{Hi: 20, NonNegative: true, AtMostFirst: true}, Def: 1,
 		Rule: "{lo} to {hi}, default 1; with `controlled_closing = true` only"},
 	{Table: "levers", Name: "arresters_kv", Unit: "kV", SI: 1e3, Bounds: Bounds{Lo: 1, Hi: 2000}, DocUnit: "kV rms", Cost: "15", Rule: "list of rated voltages, {range}: arresters at both line ends"},
+}
+
+// tableKeys returns the names of the schema's keys of table, in the schema's order:
+// the keys a parser knows in that table.
+func tableKeys(table string) []string {
+	var names []string
+	for _, k := range Schema {
+		if k.Table == table {
+			names = append(names, k.Name)
+		}
+	}
+	return names
 }
 
 // schemaIndex finds a key by its path.

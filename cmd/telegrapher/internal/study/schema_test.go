@@ -220,3 +220,18 @@ func TestBoundsProblem(t *testing.T) {
 		}
 	}
 }
+
+// [switching] keeps its own list of keys (its order decides ties of the did-you-mean
+// hint); it holds the schema's keys of the table and the [[switching.arrester]] array.
+func TestSwitchingKeysInSchema(t *testing.T) {
+	t.Parallel()
+	want := append(tableKeys("switching"), "arrester")
+	if len(want) != len(switchingKeys) {
+		t.Errorf("switchingKeys has %d keys, the schema %d: %v against %v", len(switchingKeys), len(want), switchingKeys, want)
+	}
+	for _, k := range want {
+		if !contains(switchingKeys, k) {
+			t.Errorf("switchingKeys lacks the schema's %q", k)
+		}
+	}
+}

@@ -32,7 +32,7 @@ var (
 		"neutral_reactor_sending_ohm", "neutral_reactor_receiving_ohm", "arrester",
 		"controlled_closing", "controlled_sigma_ms", "dead_time_ms",
 	}
-	arresterKeys = []string{"at", "rated_kv", "vi_ka_kv", "name"}
+	arresterKeys = tableKeys("switching.arrester")
 )
 
 // ArresterSpec is one [[switching.arrester]] entry in SI units.
