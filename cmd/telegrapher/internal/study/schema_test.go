@@ -235,3 +235,21 @@ func TestSwitchingKeysInSchema(t *testing.T) {
 		}
 	}
 }
+
+// Every table of the schema is a top-level key the loader knows (rootKeys), and a
+// section's name comes first among the line's keys (a single [line] drops it).
+func TestSchemaTablesKnown(t *testing.T) {
+	t.Parallel()
+	for _, k := range Schema {
+		top, _, _ := strings.Cut(k.Table, ".")
+		if top == "" {
+			top = k.Name
+		}
+		if !contains(rootKeys, top) {
+			t.Errorf("%s: table %q is not in rootKeys", k.Path(), top)
+		}
+	}
+	if sectionKeys[0] != "name" {
+		t.Errorf("sectionKeys start with %q, want name", sectionKeys[0])
+	}
+}
