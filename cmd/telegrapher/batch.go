@@ -34,8 +34,8 @@ import (
 // uncompensated line (common practice, no source).
 const openEndRiseScreenPU = 1.05
 
-func init() {
-	register(&command{
+var batchCommand = func() *command {
+	return &command{
 		name:  "batch",
 		args:  "LINES.csv --out DIR [--force] [--jobs N]",
 		short: "screening of a line inventory (one line per CSV row)",
@@ -115,8 +115,8 @@ starts.`,
 				return nil
 			}
 		},
-	})
-}
+	}
+}()
 
 // batchResult is the screening of one line.
 type batchResult struct {

@@ -13,8 +13,8 @@ import (
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 )
 
-func init() {
-	register(&command{
+var checkCommand = func() *command {
+	return &command{
 		name:  "check",
 		args:  "STUDY",
 		short: "validate a study file and print what it understood",
@@ -32,8 +32,8 @@ reported as FILE: key.path: problem, with exit status 2.`,
 				return nil
 			}
 		},
-	})
-}
+	}
+}()
 
 // printCheck writes what the loader understood.
 func printCheck(w io.Writer, st *study.Study) {

@@ -23,8 +23,8 @@ import (
 	"github.com/telegrapher/telegrapher/propagation"
 )
 
-func init() {
-	register(&command{
+var constantsCommand = func() *command {
+	return &command{
 		name:  "constants",
 		args:  "STUDY [--at-hz F] [--sweep [--plot F]] [--json]",
 		short: "propagation constant, surge impedance, SIL and two-port models of the line",
@@ -76,8 +76,8 @@ the whole cascade. --json writes the same as one JSON document.`,
 				return nil
 			}
 		},
-	})
-}
+	}
+}()
 
 // maxAtHz caps --at-hz (10 MHz: beyond, a line model of per-length constants means
 // nothing).

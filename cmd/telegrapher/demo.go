@@ -27,8 +27,8 @@ const demoDir = "telegrapher-demo"
 // demoStudy returns the parsed built-in study.
 func demoStudy() (*study.Study, error) { return study.Parse(demoName, demoTOML) }
 
-func init() {
-	register(&command{
+var demoCommand = func() *command {
+	return &command{
 		name:  "demo",
 		args:  "[--out DIR] [--force] [--cable]",
 		short: "the report of the built-in demonstration study",
@@ -67,5 +67,5 @@ near the receiving end.`,
 				return nil
 			}
 		},
-	})
-}
+	}
+}()

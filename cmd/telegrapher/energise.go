@@ -39,8 +39,8 @@ import (
 	"github.com/telegrapher/telegrapher/waves"
 )
 
-func init() {
-	register(&command{
+var energiseCommand = func() *command {
+	return &command{
 		name:  "energise",
 		args:  "STUDY [--method lattice|bergeron|laplace] [--compare] [--json] [--csv F] [--plot F] [--diagram F]",
 		short: "energisation transient of the open-ended line (lattice, Bergeron, numerical Laplace)",
@@ -143,8 +143,8 @@ overvoltages (no surge arresters).`,
 				return nil
 			}
 		},
-	})
-}
+	}
+}()
 
 // lineAloneNote says what a lattice diagram of the line alone shows.
 const lineAloneNote = "the lattice method treats only a resistive source without shunts, so the lattice diagram shows the line alone, energised from an ideal source: its travel times and reflections, not the study's source and shunts"

@@ -53,3 +53,20 @@ func TestCheckHarmonicTables(t *testing.T) {
 		t.Errorf("check output:\n%s", out)
 	}
 }
+
+// The command list names each command once, in the alphabetical order `help` prints,
+// and every command is reachable by its name.
+func TestCommandListOrder(t *testing.T) {
+	t.Parallel()
+	for i, c := range commandList {
+		if i > 0 && !(commandList[i-1].name < c.name) {
+			t.Errorf("commandList: %q after %q: want distinct names in alphabetical order", c.name, commandList[i-1].name)
+		}
+		if commands[c.name] != c {
+			t.Errorf("commands[%q] is not the list's entry", c.name)
+		}
+	}
+	if len(commands) != len(commandList) {
+		t.Errorf("commands has %d entries, commandList %d", len(commands), len(commandList))
+	}
+}

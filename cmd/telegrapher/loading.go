@@ -29,8 +29,8 @@ import (
 	"gonum.org/v1/plot/vg"
 )
 
-func init() {
-	register(&command{
+var loadingCommand = func() *command {
+	return &command{
 		name:  "loading",
 		args:  "STUDY [--json] [--plot F] [--target-pu X]",
 		short: "angle, reactive power and voltage profile with both ends at 1 pu; open-end rise; loadability",
@@ -87,8 +87,8 @@ profiles for a few loadings, reactive power against loading, and the loadability
 				return nil
 			}
 		},
-	})
-}
+	}
+}()
 
 // loadingResult is everything the loading command computes. Its JSON form is the
 // contract's `loading` document (sil_mw, p_max_mw, points) with extras.

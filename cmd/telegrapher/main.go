@@ -16,7 +16,6 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"sort"
 	"strings"
 
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
@@ -41,11 +40,31 @@ type command struct {
 	flags func(fs *flag.FlagSet, stdout, stderr io.Writer) func(args []string) error
 }
 
-// commands is the command table; each command lives in its own file and registers
-// itself here through init.
+// commandList is every command, in the order of `telegrapher help`; each command's
+// definition is a package-level variable in its own file.
+var commandList = []*command{
+	batchCommand,
+	checkCommand,
+	constantsCommand,
+	demoCommand,
+	energiseCommand,
+	loadingCommand,
+	remedyCommand,
+	reportCommand,
+	scanCommand,
+	switchingCommand,
+}
+
+// commands indexes commandList by name. It is filled by init rather than by its
+// initialiser because the commands' own code looks commands up (studyArg), which would
+// make the initialisation of commandList depend on itself.
 var commands = map[string]*command{}
 
-func register(c *command) { commands[c.name] = c }
+func init() {
+	for _, c := range commandList {
+		commands[c.name] = c
+	}
+}
 
 // aliases maps accepted alternative spellings to command names.
 var aliases = map[string]string{"energize": "energise"}
@@ -139,13 +158,8 @@ func parseInterleaved(fs *flag.FlagSet, args []string) ([]string, error) {
 func printCommands(w io.Writer) {
 	fmt.Fprintln(w, "telegrapher: frequency and transient line-response analyser for overhead lines")
 	fmt.Fprintln(w, "\nusage: telegrapher COMMAND [flags] [STUDY]\n\ncommands:")
-	names := make([]string, 0, len(commands))
-	for n := range commands {
-		names = append(names, n)
-	}
-	sort.Strings(names)
-	for _, n := range names {
-		fmt.Fprintf(w, "  %-10s %s\n", n, commands[n].short)
+	for _, c := range commandList {
+		fmt.Fprintf(w, "  %-10s %s\n", c.name, c.short)
 	}
 	fmt.Fprintf(w, "  %-10s %s\n  %-10s %s\n", "help", "help on a command", "version", "print the version")
 	fmt.Fprintln(w, "\nRun 'telegrapher help COMMAND' for a command's flags.")
@@ -192,11 +206,10 @@ func commandHelp(c *command, w io.Writer) {
 }
 
 func suggestCommand(s string) string {
-	names := make([]string, 0, len(commands))
-	for n := range commands {
-		names = append(names, n)
+	names := make([]string, 0, len(commandList))
+	for _, c := range commandList {
+		names = append(names, c.name)
 	}
-	sort.Strings(names)
 	return study.DidYouMean(s, names)
 }
 

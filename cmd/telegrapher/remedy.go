@@ -35,8 +35,8 @@ import (
 	"github.com/telegrapher/telegrapher/freqscan"
 )
 
-func init() {
-	register(&command{
+var remedyCommand = func() *command {
+	return &command{
 		name:  "remedy",
 		args:  "STUDY [--json] [--plot F]",
 		short: "cheapest change of the levers that meets the study's targets",
@@ -93,8 +93,8 @@ harmonics marked; u2 against the pre-insertion resistor).`,
 				return nil
 			}
 		},
-	})
-}
+	}
+}()
 
 // remedyFigures are the figures of the study before or after the change (the keys
 // that apply: the switching ones only with a switching target).

@@ -295,8 +295,8 @@ func clip(s string, n int) string {
 	return s[:n]
 }
 
-func init() {
-	register(&command{
+var reportCommand = func() *command {
+	return &command{
 		name:  "report",
 		args:  "STUDY --out DIR [--force]",
 		short: "everything into one folder: HTML report, plots, CSV, COMTRADE",
@@ -347,8 +347,8 @@ into the same folder once no running telegrapher holds them (see the README).`,
 				return nil
 			}
 		},
-	})
-}
+	}
+}()
 
 // writeReport runs every part of st and writes the report folder out (see the report
 // command). Nothing is left behind on failure.

@@ -27,8 +27,8 @@ import (
 	"github.com/telegrapher/telegrapher/propagation"
 )
 
-func init() {
-	register(&command{
+var scanCommand = func() *command {
+	return &command{
 		name:  "scan",
 		args:  "STUDY [--json] [--csv F] [--plot F] [--map F]",
 		short: "harmonic scan: voltage magnification, resonances, harmonic screening",
@@ -71,8 +71,8 @@ frequency. An exactly lossless network has unbounded resonances: they are report
 				return runScan(st, stdout, *asJSON, *csvPath, *plotPath, *mapPath)
 			}
 		},
-	})
-}
+	}
+}()
 
 func runScan(st *study.Study, stdout io.Writer, asJSON bool, csvPath, plotPath, mapPath string) error {
 	res, err := computeScan(st)

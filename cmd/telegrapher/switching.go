@@ -35,8 +35,8 @@ import (
 	"github.com/telegrapher/telegrapher/waves"
 )
 
-func init() {
-	register(&command{
+var switchingCommand = func() *command {
+	return &command{
 		name:  "switching",
 		args:  "STUDY [--json] [--plot F]",
 		short: "three-phase statistical energisation and reclosing overvoltages",
@@ -102,8 +102,8 @@ writes the distribution on a normal-probability scale and the worst shot's wavef
 				return nil
 			}
 		},
-	})
-}
+	}
+}()
 
 // switchingFigures are the statistical figures of one set of shots.
 type switchingFigures struct {

@@ -7,6 +7,8 @@
 // are errors with a did-you-mean hint; alternatives (l or x, c or b, the two source
 // forms) exclude each other; numbers must be finite and in range.
 //
-// Other files of the package add tables through RegisterTable and RegisterSection,
-// reading them with the Table reader (table.go); see the top of load.go.
+// Every key is in the schema (schema.go: unit, SI factor, bounds, default, help), which
+// README's key tables are written from; the loader calls one parser per table in a
+// fixed order (see the top of load.go), each reading its table with the Table reader
+// (table.go).
 package study

@@ -25,7 +25,7 @@ type Error struct {
 	Others  []*Error // further independent problems of the same file, in the order found
 	Omitted int      // problems found beyond MaxErrors and not listed
 
-	text string // the full text of an error raised by a registered table parser
+	text string // the full text of an error returned by a table parser
 }
 
 // MaxErrors is the most problems one load reports; the rest are counted.
@@ -74,10 +74,10 @@ func IsInputError(err error) bool {
 	return errors.As(err, &e)
 }
 
-// wrapHookError turns an error returned by a registered parser into an *Error keeping
+// wrapParserError turns an error returned by a table parser into an *Error keeping
 // its text. Parsers deal only with user data, so whatever they return is an input
 // error; key is the table the parser owns.
-func wrapHookError(file, key string, err error) *Error {
+func wrapParserError(file, key string, err error) *Error {
 	var e *Error
 	if errors.As(err, &e) {
 		return e

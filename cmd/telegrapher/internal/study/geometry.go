@@ -14,9 +14,9 @@ import (
 
 // Keys of the study file for the geometry, as the contract writes them.
 var (
-	conductorKeys = []string{"outer_diameter_mm", "core_diameter_mm", "dc_ohm_per_km"}
-	geometryKeys  = []string{"earth_resistivity_ohm_m", "transposed", "phases", "earth_wires"}
-	wireKeys      = []string{"x_m", "height_m", "sag_m", "conductor", "bundle", "bundle_spacing_mm"}
+	conductorKeys = tableKeys("conductors.NAME")
+	geometryKeys  = tableKeys("line.geometry")
+	wireKeys      = tableKeys("line.geometry.phases")
 
 	// GeometryExclusiveKeys are the per-length constants of a line (or section) that a
 	// geometry replaces; giving both is an error.
@@ -26,21 +26,16 @@ var (
 	}
 )
 
-// Plausibility ranges (values outside are typing errors rather than towers).
-const (
-	minDiameterMM    = 1.0    // conductor outer diameter
-	maxDiameterMM    = 200.0  //
-	maxCoreRatio     = 0.9    // core over outer diameter of a tube: a wall of at least 5 %
-	minDCOhmPerKm    = 1e-3   // d.c. resistance
-	maxDCOhmPerKm    = 100.0  // d.c. resistance
-	maxResistivity   = 1e6    // earth, ohm·m
-	minHeightM       = 1.0    // conductor height at the tower
-	maxHeightM       = 300.0  //
-	maxAbsXM         = 200.0  // horizontal position
-	maxBundle        = 12     // subconductors
-	maxBundleSpaceMM = 2000.0 // subconductor spacing
-	maxEarthWires    = 4
-	minResistivity   = 0.1 // sea water is about 0.2 ohm·m
+// Bounds of the geometry's keys, from the schema (values outside are typing errors
+// rather than towers).
+var (
+	diameterBounds    = lookup("conductors.NAME.outer_diameter_mm").Bounds
+	dcBounds          = lookup("conductors.NAME.dc_ohm_per_km").Bounds
+	resistivityBounds = lookup("line.geometry.earth_resistivity_ohm_m").Bounds
+	heightBounds      = lookup("line.geometry.phases.height_m").Bounds
+	xBounds           = lookup("line.geometry.phases.x_m").Bounds
+	bundleBounds      = lookup("line.geometry.phases.bundle").Bounds
+	spacingBounds     = lookup("line.geometry.phases.bundle_spacing_mm").Bounds
 )
 
 // geoErrorf returns the input error `FILE: key.path: problem`.
@@ -48,38 +43,38 @@ func geoErrorf(file, path, format string, a ...any) error {
 	return &Error{File: file, Key: path, Msg: fmt.Sprintf(format, a...)}
 }
 
-func init() {
-	// [conductors.NAME] runs before [line] and leaves the conductors for the geometry.
-	RegisterTable(TableHook{Name: "conductors", Stage: BeforeLine, Parse: func(ld *Loader, t *Table) error {
-		if !t.Present() {
-			return nil
-		}
-		conds, entries, err := ParseConductors(ld.File, t.Map())
-		if err != nil {
-			return err
-		}
-		ld.Set("conductors", conds)
-		for _, e := range entries {
-			ld.Note(e.Key, e.Value, e.How)
-		}
+// conductors reads [conductors.NAME] (before [line]) and returns the conductor types
+// for the geometries; nil when the table is absent or has a problem (recorded).
+func (ld *Loader) conductors(t *Table) map[string]propagation.Conductor {
+	if !t.Present() {
 		return nil
-	}})
-	// [line.geometry] and [line.sections.geometry]: the section's positive- and
-	// zero-sequence constants from the tower.
-	RegisterSection(SectionHook{Key: "geometry", Build: func(ld *Loader, section, sub *Table) (pos, zero propagation.Constants, err error) {
-		if !sub.Present() {
-			return nil, nil, geoErrorf(ld.File, sub.Path(), "must be a table [%s]", sub.Path())
-		}
-		conds, _ := ld.Get("conductors").(map[string]propagation.Conductor)
-		g, entries, err := ParseGeometry(ld.File, sub.Path(), sub.Map(), section.Map(), conds, ld.Study.Frequency)
-		if err != nil {
-			return nil, nil, err
-		}
-		for _, e := range entries {
-			ld.Note(e.Key, e.Value, e.How)
-		}
-		return g.Positive(), g.Zero(), nil
-	}})
+	}
+	conds, entries, err := ParseConductors(ld.File, t.Map())
+	if err != nil {
+		ld.Fail(t.Path(), err)
+		return nil
+	}
+	for _, e := range entries {
+		ld.Note(e.Key, e.Value, e.How)
+	}
+	return conds
+}
+
+// geometry reads [line.geometry] or a section's geometry (sub, in the section's table)
+// against the conductor types conds and returns the section's positive- and
+// zero-sequence constants from the tower.
+func (ld *Loader) geometry(section, sub *Table, conds map[string]propagation.Conductor) (pos, zero propagation.Constants, err error) {
+	if !sub.Present() {
+		return nil, nil, geoErrorf(ld.File, sub.Path(), "must be a table [%s]", sub.Path())
+	}
+	g, entries, err := ParseGeometry(ld.File, sub.Path(), sub.Map(), section.Map(), conds, ld.Study.Frequency)
+	if err != nil {
+		return nil, nil, err
+	}
+	for _, e := range entries {
+		ld.Note(e.Key, e.Value, e.How)
+	}
+	return g.Positive(), g.Zero(), nil
 }
 
 // ParseConductors reads the [conductors] table: NAME -> {outer_diameter_mm,
@@ -100,11 +95,11 @@ func ParseConductors(file string, tbl map[string]any) (map[string]propagation.Co
 		if err != nil {
 			return nil, nil, err
 		}
-		if !(outer > 0) || outer > maxDiameterMM {
-			return nil, nil, geoErrorf(file, path+".outer_diameter_mm", "must be > 0 and at most %g, got %g", maxDiameterMM, outer)
+		if !(outer > 0) || outer > diameterBounds.Hi {
+			return nil, nil, geoErrorf(file, path+".outer_diameter_mm", "must be > 0 and at most %g, got %g", diameterBounds.Hi, outer)
 		}
-		if outer < minDiameterMM {
-			return nil, nil, geoErrorf(file, path+".outer_diameter_mm", "must be between %g and %g, got %g", minDiameterMM, maxDiameterMM, outer)
+		if outer < diameterBounds.Lo {
+			return nil, nil, geoErrorf(file, path+".outer_diameter_mm", "must be between %g and %g, got %g", diameterBounds.Lo, diameterBounds.Hi, outer)
 		}
 		core, err := geoNumber(file, path, t, "core_diameter_mm", false, 0)
 		if err != nil {
@@ -120,11 +115,11 @@ func ParseConductors(file string, tbl map[string]any) (map[string]propagation.Co
 		if err != nil {
 			return nil, nil, err
 		}
-		if !(rdc > 0) || rdc > maxDCOhmPerKm {
-			return nil, nil, geoErrorf(file, path+".dc_ohm_per_km", "must be > 0 and at most %g, got %g", maxDCOhmPerKm, rdc)
+		if !(rdc > 0) || rdc > dcBounds.Hi {
+			return nil, nil, geoErrorf(file, path+".dc_ohm_per_km", "must be > 0 and at most %g, got %g", dcBounds.Hi, rdc)
 		}
-		if rdc < minDCOhmPerKm {
-			return nil, nil, geoErrorf(file, path+".dc_ohm_per_km", "must be between %g and %g, got %g", minDCOhmPerKm, maxDCOhmPerKm, rdc)
+		if rdc < dcBounds.Lo {
+			return nil, nil, geoErrorf(file, path+".dc_ohm_per_km", "must be between %g and %g, got %g", dcBounds.Lo, dcBounds.Hi, rdc)
 		}
 		c, err := propagation.NewConductor(outer/1000, core/1000, rdc/1000)
 		if err != nil {
@@ -159,8 +154,8 @@ func ParseGeometry(file, path string, tbl map[string]any, lineTbl map[string]any
 	if err != nil {
 		return nil, nil, err
 	}
-	if !(rho >= minResistivity) || rho > maxResistivity {
-		return nil, nil, geoErrorf(file, path+".earth_resistivity_ohm_m", "must be between %g and %g, got %g", minResistivity, maxResistivity, rho)
+	if !(rho >= resistivityBounds.Lo) || rho > resistivityBounds.Hi {
+		return nil, nil, geoErrorf(file, path+".earth_resistivity_ohm_m", "must be between %g and %g, got %g", resistivityBounds.Lo, resistivityBounds.Hi, rho)
 	}
 	transposed := true
 	if v, ok := tbl["transposed"]; ok {
@@ -252,18 +247,18 @@ func geoWires(file, path string, raw any, conductors map[string]propagation.Cond
 		if err != nil {
 			return nil, nil, err
 		}
-		if math.Abs(x) > maxAbsXM {
-			return nil, nil, geoErrorf(file, p+".x_m", "must be within ±%g m, got %g", maxAbsXM, x)
+		if !(x >= xBounds.Lo && x <= xBounds.Hi) {
+			return nil, nil, geoErrorf(file, p+".x_m", "must be within ±%g m, got %g", xBounds.Hi, x)
 		}
 		h, err := geoNumber(file, p, t, "height_m", true, 0)
 		if err != nil {
 			return nil, nil, err
 		}
-		if !(h > 0) || h > maxHeightM {
-			return nil, nil, geoErrorf(file, p+".height_m", "must be > 0 and at most %g m, got %g", maxHeightM, h)
+		if !(h > 0) || h > heightBounds.Hi {
+			return nil, nil, geoErrorf(file, p+".height_m", "must be > 0 and at most %g m, got %g", heightBounds.Hi, h)
 		}
-		if h < minHeightM {
-			return nil, nil, geoErrorf(file, p+".height_m", "must be between %g and %g m, got %g", minHeightM, maxHeightM, h)
+		if h < heightBounds.Lo {
+			return nil, nil, geoErrorf(file, p+".height_m", "must be between %g and %g m, got %g", heightBounds.Lo, heightBounds.Hi, h)
 		}
 		sag, err := geoNumber(file, p, t, "sag_m", false, 0)
 		if err != nil {
@@ -290,8 +285,8 @@ func geoWires(file, path string, raw any, conductors map[string]propagation.Cond
 			if !isInt {
 				return nil, nil, geoErrorf(file, p+".bundle", "must be a whole number of subconductors, got %v", bv)
 			}
-			if n < 1 || n > maxBundle {
-				return nil, nil, geoErrorf(file, p+".bundle", "must be 1 to %d, got %d", maxBundle, n)
+			if float64(n) < bundleBounds.Lo || float64(n) > bundleBounds.Hi {
+				return nil, nil, geoErrorf(file, p+".bundle", "must be %g to %g, got %d", bundleBounds.Lo, bundleBounds.Hi, n)
 			}
 			bundle = int(n)
 		}
@@ -300,8 +295,8 @@ func geoWires(file, path string, raw any, conductors map[string]propagation.Cond
 			return nil, nil, err
 		}
 		switch {
-		case bundle > 1 && !(spacing > 2000*cond.OuterRadius && spacing <= maxBundleSpaceMM):
-			return nil, nil, geoErrorf(file, p+".bundle_spacing_mm", "a bundle of %d needs a spacing above the conductor diameter (%g mm) and at most %g mm, got %g", bundle, 2000*cond.OuterRadius, maxBundleSpaceMM, spacing)
+		case bundle > 1 && !(spacing > 2000*cond.OuterRadius && spacing <= spacingBounds.Hi):
+			return nil, nil, geoErrorf(file, p+".bundle_spacing_mm", "a bundle of %d needs a spacing above the conductor diameter (%g mm) and at most %g mm, got %g", bundle, 2000*cond.OuterRadius, spacingBounds.Hi, spacing)
 		case bundle == 1 && spacing != 0:
 			return nil, nil, geoErrorf(file, p+".bundle_spacing_mm", "only with bundle > 1 (bundle is 1), got %g", spacing)
 		}

@@ -3,43 +3,17 @@ package study
 // The study loader: Load/Parse read a TOML study file, check every key, convert to SI
 // units once, fill the documented defaults and build the line and network models.
 //
-// # Adding a study table (the extension point)
+// # The tables, in a fixed order
 //
-// Other files of this package add tables without touching this file, by registering a
-// parser in an init function:
-//
-//	func init() {
-//		RegisterTable(TableHook{
-//			Name:  "switching",   // top-level key the parser owns: [switching]
-//			Stage: AfterModels,   // or BeforeLine when the line needs its result
-//			Parse: func(ld *Loader, t *Table) error {
-//				n, ok := t.Int("shots")   // typed, checked, key path in messages
-//				...
-//				t.Known("shots", "seed", ...) // unknown keys, with a did-you-mean hint
-//				ld.Study.Switching.Shots = int(n)
-//				ld.Note("switching.shots", "200", "default") // for `check`
-//				return ld.Err()
-//			},
-//		})
-//	}
-//
-// Parse is called once per load whether the table is in the file or not (an absent
-// table reads as empty, so defaults apply); t.Present() tells the two apart. Until a
-// parser is registered its key is an unknown key. BeforeLine parsers run after
-// frequency_hz, voltage_kv and us_kv are read and before [line]; AfterModels parsers
-// run last, with Study.Line, Zero, Network and ZeroNetwork built. ld.Set/ld.Get pass
-// values between parsers (the conductors to the geometry).
-//
-// A sub-table of [line] and of every [[line.sections]] entry that gives a section's
-// constants some other way (the tower geometry) registers a SectionHook:
-//
-//	RegisterSection(SectionHook{
-//		Key: "geometry", // [line.geometry], [line.sections.geometry]
-//		Build: func(ld *Loader, section, sub *Table) (pos, zero propagation.Constants, err error) { ... },
-//	})
-//
-// When the section has the key, Build replaces the per-length keys (giving both is an
-// error reported here); pos must be non-nil, zero may be nil.
+// load reads the tables in one explicit order: the system keys, [conductors] (the
+// named conductor types, handed to the line as a typed map), [line] with its sections
+// and geometries, [source], [[shunt]], [receiving]; then, with the models built,
+// [scan], [energise], [levers], [loading], [switching] and [targets] (which is given
+// the levers read before it). Each parser reads its table through a *Table (typed,
+// checked, the key path in messages), records its problems in the Loader, notes what
+// it understood for `check` (Study.Understood), and writes its part of the Study.
+// The keys, their units, SI factors, bounds and defaults are in the schema
+// (schema.go); README's key tables are written from it.
 //
 // Errors: a parser returns an error (any type; it is kept as an input error with its
 // text) or records one with t.Errorf / ld.Errorf, whose text is `FILE: key.path:
@@ -52,7 +26,6 @@ import (
 	"io"
 	"math"
 	"os"
-	"sort"
 
 	"github.com/BurntSushi/toml"
 	"github.com/telegrapher/telegrapher/propagation"
@@ -67,76 +40,21 @@ const (
 	MaxSections   = 1000       // [[line.sections]] entries
 )
 
-// Stage says when a registered table parser runs.
-type Stage int
-
-const (
-	// BeforeLine parsers run after the system keys and before [line].
-	BeforeLine Stage = iota
-	// AfterModels parsers run last, with the line and network models built.
-	AfterModels
-)
-
-// TableHook is a parser of one top-level table, registered by another file of this
-// package (see the top of load.go).
-type TableHook struct {
-	Name  string // top-level key, e.g. "switching"
-	Stage Stage
-	Parse func(ld *Loader, t *Table) error
-}
-
-// SectionHook gives a line section's constants from a sub-table of the section (see
-// the top of load.go).
-type SectionHook struct {
-	Key   string // sub-table key in [line] and in each [[line.sections]] entry
-	Build func(ld *Loader, section, sub *Table) (pos, zero propagation.Constants, err error)
-}
-
-var (
-	tableHooks   []TableHook
-	sectionHooks []SectionHook
-)
-
-// RegisterTable adds a top-level table parser. Call it from init; a duplicate or core
-// name is a programmer error and panics.
-func RegisterTable(h TableHook) {
-	if h.Name == "" || h.Parse == nil || contains(rootKeys, h.Name) {
-		panic("study: RegisterTable: bad or core table name " + h.Name)
-	}
-	for _, o := range tableHooks {
-		if o.Name == h.Name {
-			panic("study: RegisterTable: " + h.Name + " registered twice")
-		}
-	}
-	tableHooks = append(tableHooks, h)
-	sort.SliceStable(tableHooks, func(i, j int) bool { return tableHooks[i].Name < tableHooks[j].Name })
-}
-
-// RegisterSection adds a section-constants parser. Call it from init.
-func RegisterSection(h SectionHook) {
-	if h.Key == "" || h.Build == nil || contains(sectionKeys, h.Key) || contains(lineOnlyKeys, h.Key) {
-		panic("study: RegisterSection: bad or core key " + h.Key)
-	}
-	for _, o := range sectionHooks {
-		if o.Key == h.Key {
-			panic("study: RegisterSection: " + h.Key + " registered twice")
-		}
-	}
-	sectionHooks = append(sectionHooks, h)
-}
-
 // Keys of the core study file.
 var (
-	rootKeys      = []string{"title", "frequency_hz", "voltage_kv", "us_kv", "line", "source", "shunt", "receiving", "scan", "energise"}
-	constantKeys  = []string{"r_ohm_per_km", "l_mh_per_km", "x_ohm_per_km", "c_nf_per_km", "b_us_per_km", "g_us_per_km"}
-	zeroKeys      = []string{"r0_ohm_per_km", "l0_mh_per_km", "x0_ohm_per_km", "c0_nf_per_km", "b0_us_per_km", "g0_us_per_km"}
-	sectionKeys   = append(append([]string{"name", "length_km"}, constantKeys...), zeroKeys...)
-	lineOnlyKeys  = []string{"sections"}
-	sourceKeys    = []string{"short_circuit_mva", "x_over_r", "r_ohm", "l_mh", "x_ohm", "x0_over_x1"}
-	shuntKeys     = []string{"name", "at", "connection", "mvar", "q_factor"}
-	receivingKeys = []string{"load_mw", "load_mvar", "short_circuit_mva", "x_over_r", "x0_over_x1"}
-	scanKeys      = []string{"f_min_hz", "f_max_hz", "points", "grid", "watch_harmonics", "gain_limit", "watch_band_pct", "background_pct", "planning_pct", "short_circuit_mva_range", "steps", "far_system"}
-	energiseKeys  = []string{"waveform", "close_deg", "trapped_pu", "duration_ms", "time_step_us", "method"}
+	rootKeys     = []string{"title", "frequency_hz", "voltage_kv", "us_kv", "line", "source", "shunt", "receiving", "scan", "energise", "conductors", "levers", "loading", "switching", "targets"}
+	constantKeys = []string{"r_ohm_per_km", "l_mh_per_km", "x_ohm_per_km", "c_nf_per_km", "b_us_per_km", "g_us_per_km"}
+	zeroKeys     = []string{"r0_ohm_per_km", "l0_mh_per_km", "x0_ohm_per_km", "c0_nf_per_km", "b0_us_per_km", "g0_us_per_km"}
+	sectionKeys  = tableKeys("line") // name (of a section), length_km, the constants
+	lineOnlyKeys = []string{"sections"}
+	// geometryKey is the sub-table of [line] and of every [[line.sections]] entry that
+	// gives the section's constants from the tower instead of the per-length keys.
+	geometryKey   = "geometry"
+	sourceKeys    = tableKeys("source")
+	shuntKeys     = tableKeys("shunt")
+	receivingKeys = tableKeys("receiving")
+	scanKeys      = tableKeys("scan")
+	energiseKeys  = tableKeys("energise")
 )
 
 // Load reads and validates the study file at path. Every error is an *Error naming
@@ -184,7 +102,7 @@ func Parse(name string, data []byte) (*Study, error) {
 	if len(m) == 0 {
 		return nil, &Error{File: name, Msg: "the study file is empty (comments only); give at least frequency_hz, voltage_kv and [line]"}
 	}
-	ld := &Loader{File: name, Study: &Study{File: name}, shared: map[string]any{}}
+	ld := &Loader{File: name, Study: &Study{File: name}}
 	ld.root = &Table{ld: ld, m: m}
 	if err := ld.load(); err != nil {
 		return nil, err
@@ -192,18 +110,15 @@ func Parse(name string, data []byte) (*Study, error) {
 	return ld.Study, nil
 }
 
-// load runs the stages in order and returns every problem found. The system keys
-// feed every later table, so a problem there stops the load; a problem in the
-// conductors stops the line, and a problem in the line, source, shunts or receiving end
-// stops the models and the tables read after them (AfterModels parsers may rely on the
-// models), while [scan] and [energise] are checked in any case.
+// load reads the tables in their fixed order and returns every problem found. The
+// system keys feed every later table, so a problem there stops the load; a problem in
+// the conductors stops the line, and a problem in the line, source, shunts or receiving
+// end stops the models and the tables read after them ([levers], [loading],
+// [switching] and [targets] rely on the models), while [scan] and [energise] are
+// checked in any case.
 func (ld *Loader) load() (err error) {
 	root := ld.root
-	known := append([]string{}, rootKeys...)
-	for _, h := range tableHooks {
-		known = append(known, h.Name)
-	}
-	root.Known(known...)
+	root.Known(rootKeys...)
 	top := ld.mark() // an unknown top-level key breaks no model
 	m := top
 	ld.system(root)
@@ -211,9 +126,9 @@ func (ld *Loader) load() (err error) {
 		return ld.Err()
 	}
 	m = ld.mark()
-	ld.runHooks(BeforeLine)
+	conds := ld.conductors(root.Sub("conductors"))
 	if !ld.failedSince(m) {
-		ld.line(root.Sub("line"))
+		ld.line(root.Sub("line"), conds)
 	}
 	ld.source(root.Sub("source"))
 	ld.shunts(root)
@@ -225,18 +140,12 @@ func (ld *Loader) load() (err error) {
 	ld.scan(root.Sub("scan"))
 	ld.energise(root.Sub("energise"))
 	if modelsOK {
-		ld.runHooks(AfterModels)
+		lv, leversGiven := ld.levers(root.Sub("levers"))
+		ld.loading(root.Sub("loading"))
+		ld.switching(root.Sub("switching"))
+		ld.targets(root.Sub("targets"), lv, leversGiven)
 	}
 	return ld.Err()
-}
-
-func (ld *Loader) runHooks(stage Stage) {
-	for _, h := range tableHooks {
-		if h.Stage != stage {
-			continue
-		}
-		ld.Fail(h.Name, h.Parse(ld, ld.root.Sub(h.Name)))
-	}
 }
 
 // required returns the number at key, recording "missing" with an example when absent.
@@ -248,34 +157,6 @@ func required(t *Table, key, example string) float64 {
 	return v
 }
 
-// Bounds of the core keys: beyond them a value is a typing error rather than a power
-// line, or too small for the numerics to mean anything (a subnormal resistance, a
-// frequency of 1e-320 Hz). README's key tables list them.
-const (
-	minFrequencyHz = 1    // system frequency
-	maxFrequencyHz = 1e4  //
-	minVoltageKV   = 1    // line-to-line
-	maxVoltageKV   = 2000 //
-	minLengthKm    = 0.01 // a line or section: 10 m
-	maxLengthKm    = 1e4  //
-	maxMVA         = 1e7  // powers
-	maxScanHz      = 1e7  // scan frequencies
-	minScanHz      = 1e-3 //
-)
-
-// Bounds of the per-length constants, in the units of their keys; r and g may also be
-// 0 (lossless). The same hold for the zero sequence and for every section; x and b are
-// held to the l and c bounds at frequency_hz. The lower l and c bounds are low enough
-// that a unit slip (uF/km in the nF/km key, H/km in the mH/km key) meets the speed
-// of light first, whose message says what is wrong: at either lower bound no
-// partner within the other's bounds gives a line slower than light.
-var (
-	rBounds = [2]float64{1e-6, 1000} // ohm/km
-	lBounds = [2]float64{1e-4, 100}  // mH/km
-	cBounds = [2]float64{1e-3, 1e4}  // nF/km
-	gBounds = [2]float64{1e-6, 1e4}  // uS/km (far above any line: tests force overflow with it)
-)
-
 func (ld *Loader) system(root *Table) {
 	st := ld.Study
 	if s, ok := root.String("title"); ok {
@@ -283,27 +164,21 @@ func (ld *Loader) system(root *Table) {
 		ld.Note("title", fmt.Sprintf("%q", s), "given")
 	}
 	f := required(root, "frequency_hz", "frequency_hz = 50")
-	root.Positive("frequency_hz", f)
-	root.AtMost("frequency_hz", f, maxFrequencyHz)
-	root.Between("frequency_hz", f, minFrequencyHz, maxFrequencyHz)
+	root.Check("frequency_hz", f)
 	mv := ld.mark()
 	v := required(root, "voltage_kv", "voltage_kv = 400")
-	root.Positive("voltage_kv", v)
-	root.AtMost("voltage_kv", v, maxVoltageKV)
-	root.Between("voltage_kv", v, minVoltageKV, maxVoltageKV)
+	root.Check("voltage_kv", v)
 	vOK := !ld.failedSince(mv)
-	st.Frequency, st.Voltage = f, v*1e3
-	ld.Note("frequency_hz", fmt.Sprintf("%g Hz", f), "given")
+	st.Frequency, st.Voltage = root.SI("frequency_hz", f), root.SI("voltage_kv", v)
+	ld.noteNum(root, "frequency_hz", f, "given")
 	ld.Note("voltage_kv", fmt.Sprintf("%g kV line-to-line rms", v), "given")
-	if us, ok := root.Float("us_kv"); ok {
-		mu := ld.mark()
-		root.Positive("us_kv", us)
-		root.AtMost("us_kv", us, maxVoltageKV)
+	mu := ld.mark()
+	if us, ok := root.Num("us_kv"); ok {
 		if vOK && !ld.failedSince(mu) && us < v {
 			root.Errorf("us_kv", "the highest voltage for equipment must be >= voltage_kv (%g), got %g", v, us)
 		}
-		st.Us = us * 1e3
-		ld.Note("us_kv", fmt.Sprintf("%g kV", us), "given")
+		st.Us = root.SI("us_kv", us)
+		ld.noteNum(root, "us_kv", us, "given")
 	} else {
 		st.Us = st.Voltage
 		ld.Note("us_kv", fmt.Sprintf("%g kV", v), "default: voltage_kv")
@@ -315,7 +190,7 @@ func (ld *Loader) omega() float64 { return 2 * math.Pi * ld.Study.Frequency }
 
 // line reads [line]: either one section (its keys in [line]) or [[line.sections]].
 // Each section is checked on its own; the line is built only when all are good.
-func (ld *Loader) line(t *Table) {
+func (ld *Loader) line(t *Table, conds map[string]propagation.Conductor) {
 	if !t.Present() {
 		if !ld.keys["line"] {
 			ld.Errorf("line", "missing: give the line, e.g. [line] with length_km, r_ohm_per_km, l_mh_per_km and c_nf_per_km")
@@ -345,7 +220,7 @@ func (ld *Loader) line(t *Table) {
 		var pos, zero propagation.Cascade
 		ref := -1 // the first good section, which says whether zero-sequence data is given
 		for i, s := range secs {
-			p, z := ld.section(s, true)
+			p, z := ld.section(s, true, conds)
 			if p == nil {
 				continue
 			}
@@ -367,7 +242,7 @@ func (ld *Loader) line(t *Table) {
 		ld.Note("line.length_km", fmt.Sprintf("%g km in %d sections", pos.Length()/1e3, len(pos)), "sum of the sections")
 		return
 	}
-	p, z := ld.section(t, false)
+	p, z := ld.section(t, false, conds)
 	if p == nil {
 		return
 	}
@@ -386,53 +261,47 @@ func haveWord(b bool) string {
 
 // section reads one section's keys (the single [line] or one [[line.sections]] entry)
 // and returns its positive-sequence line and, when given, its zero-sequence line; nil
-// when the section has a problem (recorded).
-func (ld *Loader) section(t *Table, named bool) (pos, zero *propagation.Line) {
+// when the section has a problem (recorded). conds are the conductor types a geometry
+// names.
+func (ld *Loader) section(t *Table, named bool, conds map[string]propagation.Conductor) (pos, zero *propagation.Line) {
 	m := ld.mark()
 	known := append([]string{}, sectionKeys...)
 	if !named {
 		known = known[1:] // no name in a single-section [line]
 		known = append(known, lineOnlyKeys...)
 	}
-	for _, h := range sectionHooks {
-		known = append(known, h.Key)
-	}
+	known = append(known, geometryKey)
 	t.Known(known...)
 	var name string
 	if named {
 		name, _ = t.String("name")
 	}
 	length := required(t, "length_km", "length_km = 320")
-	t.Positive("length_km", length)
-	t.AtMost("length_km", length, maxLengthKm)
-	t.Between("length_km", length, minLengthKm, maxLengthKm)
-	ld.Note(t.KeyPath("length_km"), fmt.Sprintf("%g km", length), "given")
+	t.Check("length_km", length)
+	ld.noteNum(t, "length_km", length, "given")
 	if named && name != "" {
 		ld.Note(t.KeyPath("name"), fmt.Sprintf("%q", name), "given")
 	}
-	for _, h := range sectionHooks {
-		if !t.Has(h.Key) {
-			continue
-		}
+	if t.Has(geometryKey) {
 		for _, k := range append(append([]string{}, constantKeys...), zeroKeys...) {
 			if t.Has(k) {
-				t.Errorf(k, "the per-length constants and %s exclude each other; give one or the other", t.KeyPath(h.Key))
+				t.Errorf(k, "the per-length constants and %s exclude each other; give one or the other", t.KeyPath(geometryKey))
 				return nil, nil
 			}
 		}
-		p, z, err := h.Build(ld, t, t.Sub(h.Key))
-		ld.Fail(t.KeyPath(h.Key), err)
+		p, z, err := ld.geometry(t, t.Sub(geometryKey), conds)
+		ld.Fail(t.KeyPath(geometryKey), err)
 		if ld.failedSince(m) {
 			return nil, nil
 		}
 		if p == nil {
-			t.Errorf(h.Key, "gives no line constants")
+			t.Errorf(geometryKey, "gives no line constants")
 			return nil, nil
 		}
 		ld.plausible(t, name, p, z, true)
-		pos = &propagation.Line{Name: name, Length: length * 1e3, Constants: p}
+		pos = &propagation.Line{Name: name, Length: t.SI("length_km", length), Constants: p}
 		if z != nil {
-			zero = &propagation.Line{Name: name, Length: length * 1e3, Constants: z}
+			zero = &propagation.Line{Name: name, Length: t.SI("length_km", length), Constants: z}
 		}
 		return pos, zero
 	}
@@ -456,9 +325,9 @@ func (ld *Loader) section(t *Table, named bool) (pos, zero *propagation.Line) {
 	if ld.failedSince(m) {
 		return nil, nil
 	}
-	pos = &propagation.Line{Name: name, Length: length * 1e3, Constants: rl}
+	pos = &propagation.Line{Name: name, Length: t.SI("length_km", length), Constants: rl}
 	if anyZero {
-		zero = &propagation.Line{Name: name, Length: length * 1e3, Constants: z}
+		zero = &propagation.Line{Name: name, Length: t.SI("length_km", length), Constants: z}
 	}
 	return pos, zero
 }
@@ -476,26 +345,21 @@ func (ld *Loader) rlgc(t *Table, seq, what string) propagation.RLGC {
 			t.Errorf(key, "missing: give the %s series resistance, e.g. %s", what, ex)
 		}
 	}
-	if r, ok := t.Float(rk); ok {
-		t.NonNegative(rk, r)
-		t.ZeroOr(rk, r, rBounds[0], rBounds[1])
-		p.R = r / 1e3
-		ld.Note(t.KeyPath(rk), fmt.Sprintf("%g ohm/km", r), "given")
+	if r, ok := t.Num(rk); ok {
+		p.R = r / 1e3 // a division, not t.SI: r*1e-3 may differ from r/1e3 in the last bit
+		ld.noteNum(t, rk, r, "given")
 	} else if !t.Has(rk) {
 		missing(rk, rk+" = 0.03")
 	}
 
-	switch t.Exclusive(lk, xk) {
+	switch t.Exclusive(lk, t.key(lk).Alt) {
 	case lk:
-		l, _ := t.Float(lk)
-		t.Positive(lk, l)
-		t.Between(lk, l, lBounds[0], lBounds[1])
-		p.L = l * 1e-6
-		ld.Note(t.KeyPath(lk), fmt.Sprintf("%g mH/km", l), "given")
+		l, _ := t.Num(lk)
+		p.L = t.SI(lk, l)
+		ld.noteNum(t, lk, l, "given")
 	case xk:
-		x, _ := t.Float(xk)
-		t.Positive(xk, x)
-		ld.throughOmega(t, xk, x, w*1e-3, lBounds, "mH/km", "ohm/km")
+		x, _ := t.Num(xk)
+		ld.throughOmega(t, xk, x, w*1e-3, t.key(lk))
 		p.L = x / w / 1e3
 		ld.Note(t.KeyPath(lk), fmt.Sprintf("%.6g mH/km", p.L*1e6), fmt.Sprintf("from %s = %g ohm/km at %g Hz", xk, x, ld.Study.Frequency))
 	default:
@@ -507,17 +371,14 @@ func (ld *Loader) rlgc(t *Table, seq, what string) propagation.RLGC {
 			}
 		}
 	}
-	switch t.Exclusive(ck, bk) {
+	switch t.Exclusive(ck, t.key(ck).Alt) {
 	case ck:
-		c, _ := t.Float(ck)
-		t.Positive(ck, c)
-		t.Between(ck, c, cBounds[0], cBounds[1])
-		p.C = c * 1e-12
-		ld.Note(t.KeyPath(ck), fmt.Sprintf("%g nF/km", c), "given")
+		c, _ := t.Num(ck)
+		p.C = t.SI(ck, c)
+		ld.noteNum(t, ck, c, "given")
 	case bk:
-		b, _ := t.Float(bk)
-		t.Positive(bk, b)
-		ld.throughOmega(t, bk, b, w*1e-3, cBounds, "nF/km", "uS/km")
+		b, _ := t.Num(bk)
+		ld.throughOmega(t, bk, b, w*1e-3, t.key(ck))
 		p.C = b * 1e-6 / w / 1e3
 		ld.Note(t.KeyPath(ck), fmt.Sprintf("%.6g nF/km", p.C*1e12), fmt.Sprintf("from %s = %g uS/km at %g Hz", bk, b, ld.Study.Frequency))
 	default:
@@ -529,23 +390,23 @@ func (ld *Loader) rlgc(t *Table, seq, what string) propagation.RLGC {
 			}
 		}
 	}
-	if g, ok := t.Float(gk); ok {
-		t.NonNegative(gk, g)
-		t.ZeroOr(gk, g, gBounds[0], gBounds[1])
-		p.G = g * 1e-9
-		ld.Note(t.KeyPath(gk), fmt.Sprintf("%g uS/km", g), "given")
+	if g, ok := t.Num(gk); ok {
+		p.G = t.SI(gk, g)
+		ld.noteNum(t, gk, g, "given")
 	} else {
-		ld.Note(t.KeyPath(gk), "0 uS/km", "default")
+		ld.noteNum(t, gk, 0, "default")
 	}
 	return p
 }
 
-// throughOmega checks a reactance or susceptance v given at frequency_hz against the
-// bounds of the inductance or capacitance it stands for (v = k·x with k = ω in the
-// units at hand), and names the key as given with the bounds in its own unit.
-func (ld *Loader) throughOmega(t *Table, key string, v, k float64, b [2]float64, unit, vunit string) {
-	if x := v / k; !(x >= b[0] && x <= b[1]) {
+// throughOmega checks a reactance or susceptance v at key, given at frequency_hz,
+// against the bounds of the inductance or capacitance (the schema's key of) it stands
+// for (v = k·x with k = ω in the units at hand), and names the key as given with the
+// bounds in its own unit.
+func (ld *Loader) throughOmega(t *Table, key string, v, k float64, of *Key) {
+	b := of.Bounds
+	if x := v / k; !(x >= b.Lo && x <= b.Hi) {
 		t.Errorf(key, "must be between %.6g and %.6g %s (%s to %s %s at %g Hz), got %s",
-			b[0]*k, b[1]*k, vunit, num(b[0]), num(b[1]), unit, ld.Study.Frequency, num(v))
+			b.Lo*k, b.Hi*k, t.key(key).Unit, num(b.Lo), num(b.Hi), of.Unit, ld.Study.Frequency, num(v))
 	}
 }

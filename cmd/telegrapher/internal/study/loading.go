@@ -15,20 +15,14 @@ type LoadingSettings struct {
 	ThermalRating float64 // A per phase; 0 = no thermal limit
 }
 
-func init() {
-	RegisterTable(TableHook{Name: "loading", Stage: AfterModels, Parse: parseLoading})
-}
-
-func parseLoading(ld *Loader, t *Table) error {
+// loading reads [loading] into Study.Loading.
+func (ld *Loader) loading(t *Table) {
 	if !t.Present() {
-		return nil
+		return
 	}
 	t.Known("thermal_rating_a")
-	if a, ok := t.Float("thermal_rating_a"); ok {
-		t.Positive("thermal_rating_a", a)
-		t.Between("thermal_rating_a", a, 1, 1e6)
-		ld.Study.Loading.ThermalRating = a
+	if a, ok := t.Num("thermal_rating_a"); ok {
+		ld.Study.Loading.ThermalRating = t.SI("thermal_rating_a", a)
 		ld.Note("loading.thermal_rating_a", fmt.Sprintf("%g A per phase = %.4g MVA at voltage_kv", a, 1.7320508075688772*ld.Study.Voltage*a/1e6), "given")
 	}
-	return nil
 }

@@ -11,31 +11,13 @@ import (
 	"github.com/telegrapher/telegrapher/freqscan"
 )
 
-// Bounds of [source], [[shunt]] and [receiving] (README's key tables list them):
-// smaller values mean nothing physical and break the numerics (an impedance of
-// 1e-320 ohm is a conductance of infinity).
-const (
-	minMVA       = 1    // short-circuit levels, MVA
-	minXOverR    = 0.1  // X/R of a system
-	maxXOverR    = 1e4  //
-	minSourceOhm = 1e-6 // source resistance when not 0, ohm
-	maxSourceOhm = 1e6  //
-	minSourceMH  = 1e-6 // source inductance when not 0, mH
-	maxSourceMH  = 1e6  //
-	minShuntMvar = 1e-3 // a shunt's rating, Mvar, in size
-	maxShuntMvar = 1e5  //
-	minLoadMW    = 1e-3 // a load's P or Q when not 0, MW or Mvar
-)
-
 // source reads [source]: a short-circuit level with X/R, or R with L (or X).
 //
 //	|Z| = V²/S,  R = |Z|/sqrt(1 + (X/R)²),  X = R·(X/R),  L = X/ω
 func (ld *Loader) source(t *Table) {
 	sp := &ld.Study.Source
-	sp.X0OverX1 = 1
-	if k, ok := t.Float("x0_over_x1"); ok {
-		t.Positive("x0_over_x1", k)
-		t.Between("x0_over_x1", k, 0.01, 100)
+	sp.X0OverX1 = t.key("x0_over_x1").Def
+	if k, ok := t.Num("x0_over_x1"); ok {
 		sp.X0OverX1, sp.HasX0OverX1 = k, true
 	}
 	m := ld.mark() // an unknown key or a wrong type below hides which form is meant
@@ -68,40 +50,32 @@ func (ld *Loader) source(t *Table) {
 	case scForm:
 		s := required(t, "short_circuit_mva", "short_circuit_mva = 15000")
 		k := required(t, "x_over_r", "x_over_r = 12")
-		t.Positive("short_circuit_mva", s)
-		t.AtMost("short_circuit_mva", s, maxMVA)
-		t.Between("short_circuit_mva", s, minMVA, maxMVA)
-		t.Positive("x_over_r", k)
-		t.AtMost("x_over_r", k, maxXOverR)
-		t.Between("x_over_r", k, minXOverR, maxXOverR)
+		t.Check("short_circuit_mva", s)
+		t.Check("x_over_r", k)
 		if ld.failedSince(m) {
 			return
 		}
 		z := v * v / (s * 1e6)
 		r := z / math.Sqrt(1+k*k)
-		sp.ShortCircuitVA, sp.XOverR, sp.R, sp.L = s*1e6, k, r, r*k/w
-		ld.Note("source.short_circuit_mva", fmt.Sprintf("%g MVA", s), "given")
-		ld.Note("source.x_over_r", fmt.Sprintf("%g", k), "given")
+		sp.ShortCircuitVA, sp.XOverR, sp.R, sp.L = t.SI("short_circuit_mva", s), k, r, r*k/w
+		ld.noteNum(t, "short_circuit_mva", s, "given")
+		ld.noteNum(t, "x_over_r", k, "given")
 		ld.Note("source.r_ohm", fmt.Sprintf("%.6g ohm", sp.R), fmt.Sprintf("from |Z| = V^2/S = %.6g ohm", z))
 		ld.Note("source.l_mh", fmt.Sprintf("%.6g mH (X = %.6g ohm at %g Hz)", sp.L*1e3, r*k, ld.Study.Frequency), "from X/R")
 	case rlForm:
 		r := required(t, "r_ohm", "r_ohm = 0.9")
-		t.NonNegative("r_ohm", r)
-		t.ZeroOr("r_ohm", r, minSourceOhm, maxSourceOhm)
-		sp.R = r
-		ld.Note("source.r_ohm", fmt.Sprintf("%g ohm", r), "given")
-		switch t.Exclusive("l_mh", "x_ohm") {
+		t.Check("r_ohm", r)
+		sp.R = t.SI("r_ohm", r)
+		ld.noteNum(t, "r_ohm", r, "given")
+		switch t.Exclusive("l_mh", t.key("l_mh").Alt) {
 		case "l_mh":
-			l, _ := t.Float("l_mh")
-			t.NonNegative("l_mh", l)
-			t.ZeroOr("l_mh", l, minSourceMH, maxSourceMH)
-			sp.L = l * 1e-3
-			ld.Note("source.l_mh", fmt.Sprintf("%g mH", l), "given")
+			l, _ := t.Num("l_mh")
+			sp.L = t.SI("l_mh", l)
+			ld.noteNum(t, "l_mh", l, "given")
 		case "x_ohm":
-			x, _ := t.Float("x_ohm")
-			t.NonNegative("x_ohm", x)
+			x, _ := t.Num("x_ohm")
 			if x != 0 {
-				ld.throughOmega(t, "x_ohm", x, w*1e-3, [2]float64{minSourceMH, maxSourceMH}, "mH", "ohm")
+				ld.throughOmega(t, "x_ohm", x, w*1e-3, t.key("l_mh"))
 			}
 			sp.L = x / w
 			ld.Note("source.l_mh", fmt.Sprintf("%.6g mH", sp.L*1e3), fmt.Sprintf("from x_ohm = %g ohm at %g Hz", x, ld.Study.Frequency))
@@ -114,11 +88,7 @@ func (ld *Loader) source(t *Table) {
 		t.Errorf("short_circuit_mva", "missing: give short_circuit_mva with x_over_r, or r_ohm with l_mh (or x_ohm); leave out [source] for an ideal source")
 		return
 	}
-	if sp.HasX0OverX1 {
-		ld.Note("source.x0_over_x1", fmt.Sprintf("%g", sp.X0OverX1), "given")
-	} else {
-		ld.Note("source.x0_over_x1", "1", "default")
-	}
+	ld.noteNum(t, "x0_over_x1", sp.X0OverX1, givenHow(sp.HasX0OverX1))
 	sp.Ideal = sp.R == 0 && sp.L == 0
 }
 
@@ -149,8 +119,8 @@ func (ld *Loader) shunts(root *Table) {
 		if q == 0 && t.Has("mvar") {
 			t.Errorf("mvar", "must not be 0 (> 0 reactor, < 0 capacitor), got 0")
 		}
-		if !(math.Abs(q) >= minShuntMvar && math.Abs(q) <= maxShuntMvar) {
-			t.Errorf("mvar", "must be between %s and %s in size (> 0 reactor, < 0 capacitor), got %s", num(minShuntMvar), num(maxShuntMvar), num(q))
+		if b := t.key("mvar").Bounds; !(math.Abs(q) >= b.Lo && math.Abs(q) <= b.Hi) {
+			t.Errorf("mvar", "must be between %s and %s in size (> 0 reactor, < 0 capacitor), got %s", num(b.Lo), num(b.Hi), num(q))
 		}
 		sh := freqscan.Shunt{Name: name, OnLine: conn == "line"}
 		if at == "receiving" {
@@ -165,9 +135,7 @@ func (ld *Loader) shunts(root *Table) {
 			kind = "capacitor"
 		}
 		losses := "lossless"
-		if qf, ok := t.Float("q_factor"); ok {
-			t.Positive("q_factor", qf)
-			t.Between("q_factor", qf, 1, 1e5)
+		if qf, ok := t.Num("q_factor"); ok {
 			sh.R = x / qf
 			losses = fmt.Sprintf("q_factor %g: R = %.6g ohm in series", qf, sh.R)
 		}
@@ -195,10 +163,8 @@ func (ld *Loader) receiving(t *Table) {
 	t.Known(receivingKeys...)
 	rs := &ld.Study.Receiving
 	w, v := ld.omega(), ld.Study.Voltage
-	if p, ok := t.Float("load_mw"); ok {
-		t.NonNegative("load_mw", p)
-		t.ZeroOr("load_mw", p, minLoadMW, maxMVA)
-		rs.LoadW = p * 1e6
+	if p, ok := t.Num("load_mw"); ok {
+		rs.LoadW = t.SI("load_mw", p)
 		if p > 0 {
 			ld.Study.Network.Load.R = v * v / rs.LoadW
 		}
@@ -209,8 +175,8 @@ func (ld *Loader) receiving(t *Table) {
 		}
 	}
 	if q, ok := t.Float("load_mvar"); ok {
-		t.ZeroOr("load_mvar", math.Abs(q), minLoadMW, maxMVA)
-		rs.LoadVar = q * 1e6
+		t.Check("load_mvar", math.Abs(q))
+		rs.LoadVar = t.SI("load_mvar", q)
 		switch {
 		case q > 0:
 			ld.Study.Network.Load.L = v * v / (rs.LoadVar * w)
@@ -225,26 +191,20 @@ func (ld *Loader) receiving(t *Table) {
 	if t.Has("short_circuit_mva") || t.Has("x_over_r") {
 		s := required(t, "short_circuit_mva", "short_circuit_mva = 8000")
 		k := required(t, "x_over_r", "x_over_r = 10")
-		t.Positive("short_circuit_mva", s)
-		t.AtMost("short_circuit_mva", s, maxMVA)
-		t.Between("short_circuit_mva", s, minMVA, maxMVA)
-		t.Positive("x_over_r", k)
-		t.AtMost("x_over_r", k, maxXOverR)
-		t.Between("x_over_r", k, minXOverR, maxXOverR)
-		rs.ShortCircuitVA, rs.XOverR = s*1e6, k
+		t.Check("short_circuit_mva", s)
+		t.Check("x_over_r", k)
+		rs.ShortCircuitVA, rs.XOverR = t.SI("short_circuit_mva", s), k
 		ld.Note("receiving.short_circuit_mva", fmt.Sprintf("%g MVA, X/R %g", s, k), "given")
 	}
-	rs.X0OverX1 = 1
-	if k, ok := t.Float("x0_over_x1"); ok {
-		t.Positive("x0_over_x1", k)
-		t.AtMost("x0_over_x1", k, 1000)
+	rs.X0OverX1 = t.key("x0_over_x1").Def
+	if k, ok := t.Num("x0_over_x1"); ok {
 		if !ld.Failed() && rs.ShortCircuitVA == 0 {
 			t.Errorf("x0_over_x1", "applies to the receiving-end system: give short_circuit_mva and x_over_r with it")
 		}
 		rs.X0OverX1 = k
-		ld.Note("receiving.x0_over_x1", fmt.Sprintf("%g", k), "given")
+		ld.noteNum(t, "x0_over_x1", k, "given")
 	} else if rs.ShortCircuitVA > 0 {
-		ld.Note("receiving.x0_over_x1", "1", "default")
+		ld.noteNum(t, "x0_over_x1", rs.X0OverX1, "default")
 	}
 }
 
@@ -283,35 +243,26 @@ func (ld *Loader) scan(t *Table) {
 	t.Known(scanKeys...)
 	sc := &ld.Study.Scan
 	f0 := ld.Study.Frequency
-	note := func(key, val string, given bool) {
-		how := "default"
-		if given {
-			how = "given"
-		}
-		ld.Note("scan."+key, val, how)
-	}
+	note := func(key, val string, given bool) { ld.Note("scan."+key, val, givenHow(given)) }
 	var ok bool
 	m := ld.mark()
-	if sc.FMin, ok = t.Float("f_min_hz"); ok {
-		t.Positive("f_min_hz", sc.FMin)
-		t.Between("f_min_hz", sc.FMin, minScanHz, maxScanHz)
-	} else {
-		sc.FMin = 1
+	if sc.FMin, ok = t.Num("f_min_hz"); !ok {
+		sc.FMin = t.key("f_min_hz").Def
 	}
-	note("f_min_hz", fmt.Sprintf("%g Hz", sc.FMin), ok)
+	ld.noteNum(t, "f_min_hz", sc.FMin, givenHow(ok))
 	if sc.FMax, ok = t.Float("f_max_hz"); !ok {
 		sc.FMax = 50 * f0
 	}
-	t.AtMost("f_max_hz", sc.FMax, maxScanHz)
+	t.Check("f_max_hz", sc.FMax)
 	if !ld.failedSince(m) && !(sc.FMax > sc.FMin) {
 		t.Errorf("f_max_hz", "must be > f_min_hz (%g), got %g", sc.FMin, sc.FMax)
 	}
-	note("f_max_hz", fmt.Sprintf("%g Hz", sc.FMax), ok)
+	ld.noteNum(t, "f_max_hz", sc.FMax, givenHow(ok))
 	n, ok := t.Int("points")
 	if !ok {
-		n = 5000
+		n = int64(t.key("points").Def)
 	}
-	t.Between("points", float64(n), 2, MaxScanPoints)
+	t.Check("points", float64(n))
 	sc.Points = int(n)
 	note("points", strconv.Itoa(sc.Points), ok)
 	grid, ok := t.String("grid")
@@ -326,7 +277,7 @@ func (ld *Loader) scan(t *Table) {
 	if ok {
 		sc.WatchHarmonics = make([]int, len(hs))
 		for i, h := range hs {
-			t.Between(fmt.Sprintf("watch_harmonics[%d]", i), float64(h), 1, 1000)
+			t.Check(fmt.Sprintf("watch_harmonics[%d]", i), float64(h))
 			sc.WatchHarmonics[i] = int(h)
 		}
 	} else {
@@ -335,21 +286,18 @@ func (ld *Loader) scan(t *Table) {
 		}
 	}
 	note("watch_harmonics", fmt.Sprint(sc.WatchHarmonics), ok)
-	if sc.GainLimit, ok = t.Float("gain_limit"); ok {
-		t.Positive("gain_limit", sc.GainLimit)
-		t.Between("gain_limit", sc.GainLimit, 1e-3, 1e6)
-	} else {
-		sc.GainLimit = 2
+	if sc.GainLimit, ok = t.Num("gain_limit"); !ok {
+		sc.GainLimit = t.key("gain_limit").Def
 	}
-	note("gain_limit", fmt.Sprintf("%g", sc.GainLimit), ok)
+	ld.noteNum(t, "gain_limit", sc.GainLimit, givenHow(ok))
 	pct, ok := t.Float("watch_band_pct")
 	if ok {
 		if !(pct > 0 && pct < 50) {
 			t.Errorf("watch_band_pct", "must be > 0 and < 50, got %g", pct)
 		}
-		t.Between("watch_band_pct", pct, 0.1, 49)
+		t.Check("watch_band_pct", pct)
 	} else {
-		pct = 10
+		pct = t.key("watch_band_pct").Def
 	}
 	sc.WatchBand = pct / 100
 	note("watch_band_pct", fmt.Sprintf("+-%g %%", pct), ok)
@@ -364,20 +312,20 @@ func (ld *Loader) scan(t *Table) {
 	if r, ok := t.Floats("short_circuit_mva_range"); ok {
 		if len(r) != 2 {
 			t.Errorf("short_circuit_mva_range", "must be [min, max], got %d numbers", len(r))
-		} else if !(r[0] > 0 && r[1] > r[0] && r[1] <= maxMVA) {
-			t.Errorf("short_circuit_mva_range", "must be [min, max] with 0 < min < max <= %g, got [%g, %g]", float64(maxMVA), r[0], r[1])
-		} else if !(r[0] >= minMVA) {
-			t.Errorf("short_circuit_mva_range", "must be [min, max] with min >= %g MVA, got [%g, %g]", float64(minMVA), r[0], r[1])
+		} else if b := t.key("short_circuit_mva_range").Bounds; !(r[0] > 0 && r[1] > r[0] && r[1] <= b.Hi) {
+			t.Errorf("short_circuit_mva_range", "must be [min, max] with 0 < min < max <= %g, got [%g, %g]", b.Hi, r[0], r[1])
+		} else if !(r[0] >= b.Lo) {
+			t.Errorf("short_circuit_mva_range", "must be [min, max] with min >= %g MVA, got [%g, %g]", b.Lo, r[0], r[1])
 		} else {
-			sc.ShortCircuitRange = [2]float64{r[0] * 1e6, r[1] * 1e6}
+			sc.ShortCircuitRange = [2]float64{t.SI("short_circuit_mva_range", r[0]), t.SI("short_circuit_mva_range", r[1])}
 			note("short_circuit_mva_range", fmt.Sprintf("%g to %g MVA", r[0], r[1]), true)
 		}
 	}
 	steps, ok := t.Int("steps")
 	if !ok {
-		steps = 20
+		steps = int64(t.key("steps").Def)
 	}
-	t.Between("steps", float64(steps), 2, 200)
+	t.Check("steps", float64(steps))
 	sc.ShortCircuitSteps = int(steps)
 	if sc.ShortCircuitRange[1] > 0 || ok {
 		note("steps", strconv.Itoa(sc.ShortCircuitSteps), ok)
@@ -417,7 +365,8 @@ func (ld *Loader) harmonicTable(t *Table, key string) map[int]float64 {
 			continue
 		}
 		v, _ := sub.Float(k)
-		sub.Between(k, v, 0, 100)
+		b := t.key(key).Bounds
+		sub.Between(k, v, b.Lo, b.Hi)
 		out[h] = v
 	}
 	if ld.failedSince(m) {
@@ -430,13 +379,7 @@ func (ld *Loader) harmonicTable(t *Table, key string) map[int]float64 {
 func (ld *Loader) energise(t *Table) {
 	t.Known(energiseKeys...)
 	e := &ld.Study.Energise
-	note := func(key, val string, given bool) {
-		how := "default"
-		if given {
-			how = "given"
-		}
-		ld.Note("energise."+key, val, how)
-	}
+	note := func(key, val string, given bool) { ld.Note("energise."+key, val, givenHow(given)) }
 	var ok bool
 	if e.Waveform, ok = t.String("waveform"); !ok {
 		e.Waveform = "step"
@@ -444,9 +387,9 @@ func (ld *Loader) energise(t *Table) {
 	t.OneOf("waveform", e.Waveform, "step", "sine")
 	note("waveform", e.Waveform, ok)
 	if e.CloseDeg, ok = t.Float("close_deg"); !ok {
-		e.CloseDeg = 90
+		e.CloseDeg = t.key("close_deg").Def
 	}
-	t.Between("close_deg", e.CloseDeg, -360, 360)
+	t.Check("close_deg", e.CloseDeg)
 	if e.Waveform == "sine" || ok {
 		v := fmt.Sprintf("%g deg", e.CloseDeg)
 		if e.Waveform != "sine" {
@@ -454,20 +397,17 @@ func (ld *Loader) energise(t *Table) {
 		}
 		note("close_deg", v, ok)
 	}
-	e.TrappedPU, ok = t.Float("trapped_pu")
-	t.Between("trapped_pu", e.TrappedPU, -2, 2)
-	note("trapped_pu", fmt.Sprintf("%g pu", e.TrappedPU), ok)
+	e.TrappedPU, ok = t.Num("trapped_pu")
+	ld.noteNum(t, "trapped_pu", e.TrappedPU, givenHow(ok))
 	md := ld.mark()
 	ms, ok := t.Float("duration_ms")
 	if !ok {
-		ms = 20
+		ms = t.key("duration_ms").Def
 	}
-	t.Positive("duration_ms", ms)
-	t.AtMost("duration_ms", ms, 10_000)
-	t.Between("duration_ms", ms, 1e-3, 10_000)
-	e.Duration, e.DurationGiven = ms/1e3, ok
+	t.Check("duration_ms", ms)
+	e.Duration, e.DurationGiven = ms/1e3, ok // a division, not t.SI: ms*1e-3 may differ from ms/1e3 in the last bit
 	if ok {
-		note("duration_ms", fmt.Sprintf("%g ms", ms), ok)
+		ld.noteNum(t, "duration_ms", ms, "given")
 	} else {
 		note("duration_ms", "chosen from the network's slowest oscillation, at least 20 ms", ok)
 	}
@@ -481,12 +421,12 @@ func (ld *Loader) energise(t *Table) {
 			t.Errorf("time_step_us", "must be shorter than duration_ms (%g ms), got %g us", ms, us)
 		}
 	}
-	t.ZeroOr("time_step_us", us, 1e-3, 1e4)
-	e.TimeStep = us / 1e6
+	t.Check("time_step_us", us)
+	e.TimeStep = us / 1e6 // a division, not t.SI: us*1e-6 may differ from us/1e6 in the last bit
 	if us == 0 {
 		note("time_step_us", "0: chosen by the method", ok)
 	} else {
-		note("time_step_us", fmt.Sprintf("%g us", us), ok)
+		ld.noteNum(t, "time_step_us", us, givenHow(ok))
 	}
 	if e.Method, ok = t.String("method"); !ok {
 		e.Method = "laplace"

@@ -179,10 +179,8 @@ func (ld *Loader) givenKey(t *Table, key, alt string) string {
 // geometry the geometry table is named.
 func (ld *Loader) suspectKey(t *Table, seq, kind string, l, c float64, derived bool) string {
 	if derived {
-		for _, h := range sectionHooks {
-			if t.Has(h.Key) {
-				return t.KeyPath(h.Key)
-			}
+		if t.Has(geometryKey) {
+			return t.KeyPath(geometryKey)
 		}
 		return t.Path()
 	}

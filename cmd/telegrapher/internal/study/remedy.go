@@ -17,8 +17,8 @@ package study
 //	arresters_kv = [330, 336, 360]     # rated voltages Ur (rms kV) of arresters at both ends
 //
 // The switching targets need zero-sequence data, and min_margin_pct needs
-// switching.siwl_kv. Both tables are parsed through the loader's extension point
-// (RegisterTable); the parsed values are attached to the study (Study.Remedy).
+// switching.siwl_kv. The loader reads [levers] first and hands them to [targets],
+// after [switching]; both are attached to the study (Study.Remedy).
 
 import (
 	"fmt"
@@ -28,9 +28,8 @@ import (
 
 // Keys of [targets] and [levers].
 var (
-	targetKeys = []string{"max_open_end_pu", "max_gain_watched", "max_u2_pu", "min_margin_pct"}
-	leverKeys  = []string{"reactor_mvar_sending", "reactor_mvar_receiving", "preinsertion_ohm",
-		"controlled_closing", "controlled_sigma_ms", "arresters_kv"}
+	targetKeys = tableKeys("targets")
+	leverKeys  = tableKeys("levers")
 )
 
 // Targets are the limits a remedy must meet; a Has flag is false for a target not given.
@@ -76,30 +75,17 @@ func (st *Study) Remedy() RemedySpec { return st.remedy }
 // SetRemedy sets them, for studies built in code.
 func (st *Study) SetRemedy(r RemedySpec) { st.remedy = r }
 
-// Limits of the remedy tables (values beyond are typing errors).
-const (
-	maxLeverMvar  = 1e5 // a reactor, Mvar
-	maxLeverOhm   = 1e5 // a pre-insertion resistor, ohm
-	maxArresterKV = 2000
-)
-
-func init() {
-	RegisterTable(TableHook{Name: "levers", Stage: AfterModels, Parse: parseLevers})
-	RegisterTable(TableHook{Name: "targets", Stage: AfterModels, Parse: parseTargets})
-}
-
-// parseLevers reads [levers]; it runs before [switching] and [targets] (hooks run by
-// name) and leaves its result for parseTargets.
-func parseLevers(ld *Loader, t *Table) error {
-	var lv Levers
-	lv.ControlledSigma = 1e-3
+// levers reads [levers] and returns them with whether the table is given, for
+// targets.
+func (ld *Loader) levers(t *Table) (lv Levers, given bool) {
+	lv.ControlledSigma = t.SI("controlled_sigma_ms", t.key("controlled_sigma_ms").Def)
 	if !t.Present() {
-		ld.Set("levers", lv)
-		ld.Set("levers.present", false)
-		return nil
+		return lv, false
 	}
 	t.Known(leverKeys...)
-	rng := func(key string, limit, least float64, unitName string, unit float64, what string) *Range {
+	rng := func(key string, what string) *Range {
+		k := t.key(key)
+		limit, least, unitName := k.Bounds.Hi, k.Bounds.Lo, k.Unit
 		v, ok := t.Floats(key)
 		if !ok {
 			return nil
@@ -117,37 +103,36 @@ func parseLevers(ld *Loader, t *Table) error {
 			return nil
 		}
 		ld.Note(t.KeyPath(key), fmt.Sprintf("none, or %s to %s %s", num(v[0]), num(v[1]), what), "given")
-		return &Range{Min: v[0] * unit, Max: v[1] * unit}
+		return &Range{Min: t.SI(key, v[0]), Max: t.SI(key, v[1])}
 	}
-	lv.ReactorSending = rng("reactor_mvar_sending", maxLeverMvar, minShuntMvar, "Mvar", 1e6, "Mvar line-connected at the sending end")
-	lv.ReactorReceiving = rng("reactor_mvar_receiving", maxLeverMvar, minShuntMvar, "Mvar", 1e6, "Mvar line-connected at the receiving end")
-	lv.Preinsertion = rng("preinsertion_ohm", maxLeverOhm, 1, "ohm", 1, "ohm pre-insertion resistor")
+	lv.ReactorSending = rng("reactor_mvar_sending", "Mvar line-connected at the sending end")
+	lv.ReactorReceiving = rng("reactor_mvar_receiving", "Mvar line-connected at the receiving end")
+	lv.Preinsertion = rng("preinsertion_ohm", "ohm pre-insertion resistor")
 	if b, ok := t.Bool("controlled_closing"); ok {
 		lv.Controlled = b
 		ld.Note(t.KeyPath("controlled_closing"), fmt.Sprint(b), "given")
 	}
-	if s, ok := t.Float("controlled_sigma_ms"); ok {
-		t.NonNegative("controlled_sigma_ms", s)
-		t.AtMost("controlled_sigma_ms", s, 20)
+	if s, ok := t.Num("controlled_sigma_ms"); ok {
 		if !ld.Failed() && !lv.Controlled {
 			t.Errorf("controlled_sigma_ms", "applies to controlled closing only; give controlled_closing = true or leave it out")
 		}
-		lv.ControlledSigma = s * 1e-3
-		ld.Note(t.KeyPath("controlled_sigma_ms"), fmt.Sprintf("%s ms", num(s)), "given")
+		lv.ControlledSigma = t.SI("controlled_sigma_ms", s)
+		ld.noteNum(t, "controlled_sigma_ms", s, "given")
 	} else if lv.Controlled {
-		ld.Note(t.KeyPath("controlled_sigma_ms"), "1 ms", "default")
+		ld.noteNum(t, "controlled_sigma_ms", t.key("controlled_sigma_ms").Def, "default")
 	}
 	if v, ok := t.Floats("arresters_kv"); ok {
 		if len(v) == 0 {
 			t.Errorf("arresters_kv", "must list at least one rated voltage (rms kV), e.g. [336, 360]")
 		}
+		b := t.key("arresters_kv").Bounds
 		for i, x := range v {
-			if !(x > 0) || x > maxArresterKV {
-				t.Errorf(fmt.Sprintf("arresters_kv[%d]", i), "must be a rated voltage > 0 and at most %d kV, got %s", maxArresterKV, num(x))
+			if !(x > 0) || x > b.Hi {
+				t.Errorf(fmt.Sprintf("arresters_kv[%d]", i), "must be a rated voltage > 0 and at most %s kV, got %s", num(b.Hi), num(x))
 				break
 			}
-			if x < arresterKVBounds[0] {
-				t.Errorf(fmt.Sprintf("arresters_kv[%d]", i), "must be a rated voltage between %s and %d kV, got %s", num(arresterKVBounds[0]), maxArresterKV, num(x))
+			if x < b.Lo {
+				t.Errorf(fmt.Sprintf("arresters_kv[%d]", i), "must be a rated voltage between %s and %s kV, got %s", num(b.Lo), num(b.Hi), num(x))
 				break
 			}
 		}
@@ -158,7 +143,7 @@ func parseLevers(ld *Loader, t *Table) error {
 				if i > 0 && x == v[i-1] {
 					continue
 				}
-				lv.ArrestersV = append(lv.ArrestersV, x*1e3)
+				lv.ArrestersV = append(lv.ArrestersV, t.SI("arresters_kv", x))
 				kvs = append(kvs, num(x))
 			}
 			ld.Note(t.KeyPath("arresters_kv"), "none, or arresters at both line ends rated "+strings.Join(kvs, ", ")+" kV", "given")
@@ -167,33 +152,25 @@ func parseLevers(ld *Loader, t *Table) error {
 	if !ld.Failed() && lv.ReactorSending == nil && lv.ReactorReceiving == nil && lv.Preinsertion == nil && !lv.Controlled && lv.ArrestersV == nil {
 		ld.Errorf(t.Path(), "gives no lever; give at least one of %s (or leave out [levers])", strings.Join(leverKeys, ", "))
 	}
-	ld.Set("levers", lv)
-	ld.Set("levers.present", true)
-	return nil
+	return lv, true
 }
 
-// parseTargets reads [targets] (after [levers] and [switching]) and attaches both
-// tables to the study.
-func parseTargets(ld *Loader, t *Table) error {
-	lv, _ := ld.Get("levers").(Levers)
-	leversGiven, _ := ld.Get("levers.present").(bool)
+// targets reads [targets] (after [switching]) and attaches it with the levers lv
+// (leversGiven: [levers] is in the file) to the study.
+func (ld *Loader) targets(t *Table, lv Levers, leversGiven bool) {
 	if !t.Present() {
 		if leversGiven {
 			ld.Errorf("levers", "needs [targets]: the search looks for the cheapest change that meets them; give e.g. [targets] max_open_end_pu = 1.05")
 		}
-		return nil
+		return
 	}
 	t.Known(targetKeys...)
 	var tg Targets
-	if v, ok := t.Float("max_open_end_pu"); ok {
-		t.Positive("max_open_end_pu", v)
-		t.Between("max_open_end_pu", v, 0.5, 10)
+	if v, ok := t.Num("max_open_end_pu"); ok {
 		tg.HasOpenEnd, tg.OpenEndPU = true, v
 		ld.Note(t.KeyPath("max_open_end_pu"), fmt.Sprintf("%s pu (no-load |Vr/Vs| at %g Hz)", num(v), ld.Study.Frequency), "given")
 	}
-	if v, ok := t.Float("max_gain_watched"); ok {
-		t.Positive("max_gain_watched", v)
-		t.Between("max_gain_watched", v, 0.1, 1e4)
+	if v, ok := t.Num("max_gain_watched"); ok {
 		tg.HasGainWatched, tg.GainWatched = true, v
 		ld.Note(t.KeyPath("max_gain_watched"), fmt.Sprintf("%s (|Vr/E| near the watched harmonics)", num(v)), "given")
 	}
@@ -202,15 +179,12 @@ func parseTargets(ld *Loader, t *Table) error {
 			t.Errorf(key, "needs the statistical switching study, which needs zero-sequence data: give line.r0_ohm_per_km, l0_mh_per_km (or x0_ohm_per_km) and c0_nf_per_km (or b0_us_per_km), or [line.geometry]")
 		}
 	}
-	if v, ok := t.Float("max_u2_pu"); ok {
-		t.Positive("max_u2_pu", v)
-		t.Between("max_u2_pu", v, 1, 10)
+	if v, ok := t.Num("max_u2_pu"); ok {
 		zeroNeeded("max_u2_pu")
 		tg.HasU2, tg.U2PU = true, v
 		ld.Note(t.KeyPath("max_u2_pu"), fmt.Sprintf("%s pu (IEC 60071-1 base)", num(v)), "given")
 	}
-	if v, ok := t.Float("min_margin_pct"); ok {
-		t.Between("min_margin_pct", v, -100, 1000)
+	if v, ok := t.Num("min_margin_pct"); ok {
 		zeroNeeded("min_margin_pct")
 		if !ld.Failed() && !(ld.Study.Switching.SIWL > 0) {
 			t.Errorf("min_margin_pct", "needs switching.siwl_kv (the withstand level the margin is taken to); give e.g. [switching] siwl_kv = 1050")
@@ -222,8 +196,7 @@ func parseTargets(ld *Loader, t *Table) error {
 		ld.Errorf(t.Path(), "gives no target; give at least one of %s", strings.Join(targetKeys, ", "))
 	}
 	if ld.Failed() {
-		return nil
+		return
 	}
 	ld.Study.SetRemedy(RemedySpec{Present: true, Targets: tg, Levers: lv})
-	return nil
 }

@@ -32,7 +32,7 @@ var (
 		"neutral_reactor_sending_ohm", "neutral_reactor_receiving_ohm", "arrester",
 		"controlled_closing", "controlled_sigma_ms", "dead_time_ms",
 	}
-	arresterKeys = []string{"at", "rated_kv", "vi_ka_kv", "name"}
+	arresterKeys = tableKeys("switching.arrester")
 )
 
 // ArresterSpec is one [[switching.arrester]] entry in SI units.
@@ -61,31 +61,27 @@ type SwitchingOptions struct {
 	DeadTime float64
 }
 
-func init() {
-	RegisterTable(TableHook{
-		Name:  "switching",
-		Stage: AfterModels,
-		Parse: func(ld *Loader, t *Table) error {
-			set, opt, seen, err := ParseSwitching(ld.File, t.Map(), ld.Study.Frequency, ld.Study.Us)
-			if err != nil {
-				return err
-			}
-			ld.Study.Switching = set
-			ld.Study.SetSwitchingOptions(opt)
-			// A neutral reactor Ln under a line-connected reactor bank adds 3·Ln to
-			// the bank's zero-sequence impedance (all three phase currents return
-			// through it); the positive sequence does not see it.
-			if zn := ld.Study.ZeroNetwork; zn != nil {
-				for e, l := range opt.NeutralReactorL {
-					zn.ReactorNeutral[e] = 3 * l
-				}
-			}
-			for _, e := range seen {
-				ld.Note(e.Key, e.Value, e.How)
-			}
-			return nil
-		},
-	})
+// switching reads [switching] (with the models built) into Study.Switching and the
+// study's switching options.
+func (ld *Loader) switching(t *Table) {
+	set, opt, seen, err := ParseSwitching(ld.File, t.Map(), ld.Study.Frequency, ld.Study.Us)
+	if err != nil {
+		ld.Fail(t.Path(), err)
+		return
+	}
+	ld.Study.Switching = set
+	ld.Study.SetSwitchingOptions(opt)
+	// A neutral reactor Ln under a line-connected reactor bank adds 3·Ln to the bank's
+	// zero-sequence impedance (all three phase currents return through it); the
+	// positive sequence does not see it.
+	if zn := ld.Study.ZeroNetwork; zn != nil {
+		for e, l := range opt.NeutralReactorL {
+			zn.ReactorNeutral[e] = 3 * l
+		}
+	}
+	for _, e := range seen {
+		ld.Note(e.Key, e.Value, e.How)
+	}
 }
 
 // SwitchingOptions returns the study's [switching] keys beyond the contract's (the
@@ -195,26 +191,26 @@ func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (Swi
 	} else {
 		seen = append(seen, Entry{Key: path("close_deg"), Value: "uniformly random over one cycle", How: "default"})
 	}
+	// A first, coarse range per key (its message kept from before the schema's bounds,
+	// which are checked at the end); the default, SI factor and unit are the schema's.
 	type rng struct {
 		key      string
-		def      float64
 		min, max float64
 		minOpen  bool // min excluded
-		unit     float64
 		dst      *float64
-		label    string
 	}
 	for _, r := range []rng{
-		{"pole_sigma_ms", 1, 0, 20, false, 1e-3, &s.PoleSigma, "ms"},
-		{"preinsertion_ohm", 0, 0, 1e5, false, 1, &s.Preinsertion, "ohm"},
-		{"preinsertion_ms", 8, 0, 100, true, 1e-3, &s.InsertTime, "ms"},
-		{"siwl_kv", 0, 0, 1e4, false, 1e3, &s.SIWL, "kV peak"},
-		{"ks", 1.15, 0, 10, true, 1, &s.Ks, ""},
-		{"kcd", 1.1, 0, 10, true, 1, &s.Kcd, ""},
-		{"duration_ms", 20, 0, 10000, true, 1e-3, &s.Duration, "ms"},
-		{"time_step_us", 0, 0, 1e4, false, 1e-6, &s.TimeStep, "µs"},
+		{"pole_sigma_ms", 0, 20, false, &s.PoleSigma},
+		{"preinsertion_ohm", 0, 1e5, false, &s.Preinsertion},
+		{"preinsertion_ms", 0, 100, true, &s.InsertTime},
+		{"siwl_kv", 0, 1e4, false, &s.SIWL},
+		{"ks", 0, 10, true, &s.Ks},
+		{"kcd", 0, 10, true, &s.Kcd},
+		{"duration_ms", 0, 10000, true, &s.Duration},
+		{"time_step_us", 0, 1e4, false, &s.TimeStep},
 	} {
-		x, given, err := num(r.key, r.def)
+		k := lookup(path(r.key))
+		x, given, err := num(r.key, k.Def)
 		if err != nil {
 			return s, o, nil, err
 		}
@@ -225,8 +221,8 @@ func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (Swi
 			}
 			return s, o, nil, swErrorf(file, path(r.key), "must be %s %g and at most %g, got %g", op, r.min, r.max, x)
 		}
-		*r.dst = x * r.unit
-		val := strings.TrimSpace(fmt.Sprintf("%g %s", x, r.label))
+		*r.dst = x * k.SI
+		val := strings.TrimSpace(fmt.Sprintf("%g %s", x, k.Unit))
 		switch {
 		case r.key == "time_step_us" && x == 0:
 			val = "chosen by the method"
@@ -253,8 +249,8 @@ func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (Swi
 		}
 		for k, e := range arr {
 			x, ok := swFloat(e)
-			if !ok || math.IsNaN(x) || math.IsInf(x, 0) || math.Abs(x) > 10 {
-				return s, o, nil, swErrorf(file, fmt.Sprintf("%s[%d]", path("trapped_pu"), k), "must be a number within ±10 pu, got %v", e)
+			if b := lookup(path("trapped_pu")).Bounds; !ok || math.IsNaN(x) || math.IsInf(x, 0) || !(x >= b.Lo && x <= b.Hi) {
+				return s, o, nil, swErrorf(file, fmt.Sprintf("%s[%d]", path("trapped_pu"), k), "must be a number within ±%g pu, got %v", b.Hi, e)
 			}
 			s.TrappedPU[k] = x
 		}
@@ -284,14 +280,14 @@ func ParseSwitching(file string, tbl map[string]any, frequency, us float64) (Swi
 		o.Controlled = b
 		add("controlled_closing", fmt.Sprintf("%v", b), true)
 	}
-	if sig, given, err := num("controlled_sigma_ms", 1); err != nil {
+	if sig, given, err := num("controlled_sigma_ms", lookup(path("controlled_sigma_ms")).Def); err != nil {
 		return s, o, nil, err
 	} else {
 		if given && !o.Controlled {
 			return s, o, nil, swErrorf(file, path("controlled_sigma_ms"), "applies to controlled closing only: set switching.controlled_closing = true")
 		}
-		if sig < 0 || sig > 20 {
-			return s, o, nil, swErrorf(file, path("controlled_sigma_ms"), "must be between 0 and 20 ms, got %g", sig)
+		if b := lookup(path("controlled_sigma_ms")).Bounds; !(sig >= b.Lo && sig <= b.Hi) {
+			return s, o, nil, swErrorf(file, path("controlled_sigma_ms"), "must be between %g and %g ms, got %g", b.Lo, b.Hi, sig)
 		}
 		if o.Controlled {
 			o.ControlledSigma = sig * 1e-3
@@ -357,8 +353,8 @@ func parseArrester(file, ap string, a map[string]any) (ArresterSpec, error) {
 		return spec, swErrorf(file, ap, "give exactly one of rated_kv and vi_ka_kv")
 	case hasR:
 		x, ok := swFloat(rv)
-		if !ok || !(x > 0) || x > 2000 || math.IsInf(x, 0) {
-			return spec, swErrorf(file, ap+".rated_kv", "must be a number > 0 and at most 2000, got %v", rv)
+		if hi := lookup("switching.arrester.rated_kv").Bounds.Hi; !ok || !(x > 0) || x > hi || math.IsInf(x, 0) {
+			return spec, swErrorf(file, ap+".rated_kv", "must be a number > 0 and at most %g, got %v", hi, rv)
 		}
 		spec.RatedV = x * 1e3
 		spec.VI = waves.TypicalArrester(spec.RatedV)
@@ -416,4 +412,46 @@ func swTables(v any) ([]map[string]any, error) {
 		return out, nil
 	}
 	return nil, fmt.Errorf("not an array of tables")
+}
+
+// checkSwitchingBounds checks the numbers of a [switching] table (tbl, decoded TOML)
+// already read by ParseSwitching against the schema's bounds, key by key in the
+// schema's order, and returns the first problem.
+func checkSwitchingBounds(file string, tbl map[string]any) error {
+	for _, k := range Schema {
+		if k.Table != "switching" || !k.Bounds.hasRange() {
+			continue
+		}
+		x, ok := swFloat(tbl[k.Name])
+		if !ok {
+			continue
+		}
+		if p := k.Bounds.problem(x); p != "" {
+			return swErrorf(file, k.Path(), "%s", p)
+		}
+	}
+	rated := lookup("switching.arrester.rated_kv").Bounds
+	current := lookup("switching.arrester.vi_ka_kv.current").Bounds
+	voltage := lookup("switching.arrester.vi_ka_kv.voltage").Bounds
+	list, _ := swTables(tbl["arrester"])
+	for i, a := range list {
+		ap := fmt.Sprintf("switching.arrester[%d]", i)
+		if x, ok := swFloat(a["rated_kv"]); ok && !(x >= rated.Lo && x <= rated.Hi) {
+			return swErrorf(file, ap+".rated_kv", "must be between %s and %s kV, got %s", num(rated.Lo), num(rated.Hi), num(x))
+		}
+		rows, _ := a["vi_ka_kv"].([]any)
+		for j, r := range rows {
+			pair, _ := r.([]any)
+			if len(pair) != 2 {
+				continue
+			}
+			i, _ := swFloat(pair[0])
+			v, _ := swFloat(pair[1])
+			if !(i >= current.Lo && i <= current.Hi && v >= voltage.Lo && v <= voltage.Hi) || math.IsNaN(i+v) {
+				return swErrorf(file, fmt.Sprintf("%s.vi_ka_kv[%d]", ap, j), "must be a pair [current_ka, voltage_kv] with current %s to %s kA and voltage %s to %s kV, got %v",
+					num(current.Lo), num(current.Hi), num(voltage.Lo), num(voltage.Hi), r)
+			}
+		}
+	}
+	return nil
 }

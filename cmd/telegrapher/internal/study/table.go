@@ -2,13 +2,12 @@ package study
 
 // The table reader: typed, checked access to one decoded TOML table, with key paths in
 // every message and unknown-key reporting with a did-you-mean hint. The core loader
-// (load.go) and every registered table parser (see the top of load.go) use it.
+// (load.go) and every table parser (see the top of load.go) use it.
 //
 // Problems are collected: each is recorded in the Loader (one per key path, at most
 // MaxErrors) and reading goes on, so a file with several mistakes gets them all in one
 // message. A parser gates a check that depends on an earlier value on that value being
-// good (ld.Failed, or a mark taken before reading it), and returns ld.Err() at the
-// end. Keys are visited in a fixed order so the problems come in the same order.
+// good (ld.Failed, or a mark taken before reading it). Keys are visited in a fixed order so the problems come in the same order.
 
 import (
 	"fmt"
@@ -19,7 +18,7 @@ import (
 )
 
 // Loader carries the state of one load: the file name, the study being built, the
-// problems found so far, and values that parsers share (the geometry's conductors, say).
+// problems found so far.
 type Loader struct {
 	File  string // the study file as given, for messages
 	Study *Study // the study being built; filled in stage order
@@ -29,7 +28,6 @@ type Loader struct {
 	omitted int             // problems beyond MaxErrors
 	dropped int             // second problems of a key already reported (not shown)
 	keys    map[string]bool // key paths with a problem: one problem per key
-	shared  map[string]any
 }
 
 // Err returns nil, or every problem recorded as one *Error (see Error).
@@ -84,7 +82,7 @@ func (ld *Loader) Fail(key string, err error) {
 	if err == nil {
 		return
 	}
-	e := wrapHookError(ld.File, key, err)
+	e := wrapParserError(ld.File, key, err)
 	others, omitted := e.Others, e.Omitted
 	if len(others) > 0 || omitted > 0 {
 		c := *e
@@ -102,12 +100,6 @@ func (ld *Loader) Fail(key string, err error) {
 func (ld *Loader) Errorf(key, format string, a ...any) {
 	ld.add(&Error{File: ld.File, Key: key, Msg: fmt.Sprintf(format, a...)})
 }
-
-// Set stores a value other parsers may need (for example "conductors").
-func (ld *Loader) Set(name string, v any) { ld.shared[name] = v }
-
-// Get returns a value stored by Set, or nil.
-func (ld *Loader) Get(name string) any { return ld.shared[name] }
 
 // Root returns the whole file as a table.
 func (ld *Loader) Root() *Table { return ld.root }

@@ -14,7 +14,7 @@ func fakeTable(t *testing.T, src string) (*Loader, *Table) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	ld := &Loader{File: "t.toml", Study: st, shared: map[string]any{}}
+	ld := &Loader{File: "t.toml", Study: st}
 	var m map[string]any
 	if err := decodeForTest(src, &m); err != nil {
 		t.Fatal(err)
@@ -23,7 +23,7 @@ func fakeTable(t *testing.T, src string) (*Loader, *Table) {
 	return ld, ld.root
 }
 
-// The table reader used by registered parsers: values, key paths, sticky errors.
+// The table reader used by the table parsers: values, key paths, sticky errors.
 func TestTableReader(t *testing.T) {
 	t.Parallel()
 	ld, root := fakeTable(t, `
