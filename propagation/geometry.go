@@ -275,7 +275,7 @@ func (g *Geometry) EarthWires() []Wire { return append([]Wire(nil), g.earth...) 
 func (g *Geometry) SeriesImpedance(s complex128) [3][3]complex128 {
 	n := g.n
 	var buf [64]complex128 // 8 conductors without allocating
-	zb := buf[:0]
+	var zb []complex128
 	if n*n > len(buf) {
 		zb = make([]complex128, n*n)
 	} else {

@@ -51,8 +51,7 @@ func onePoleLaplace(pos, zero propagation.Cascade, srcR, srcL, x0, rR, lR, lN fl
 			return out
 		}
 		a, b := ph(y11), ph(y12)
-		var ar [3][3]complex128 // receiving-end block
-		ar = a
+		ar := a // receiving-end block
 		if lR > 0 {
 			zr := complex(rR, 0) + s*complex(lR, 0)
 			yr := ph([3]complex128{1 / (zr + 3*s*complex(lN, 0)), 1 / zr, 1 / zr})

@@ -152,7 +152,6 @@ func RenderSweep(d SweepData, format string) ([]byte, error) {
 	// A title band.
 	titleH := vg.Length(0)
 	if d.Title != "" {
-		titleH = vg.Points(26)
 		ts := plot.New().Title.TextStyle // the default typeface and text handler
 		ts.Font.Size = vg.Points(13)
 		ts.XAlign, ts.YAlign = draw.XCenter, draw.YTop

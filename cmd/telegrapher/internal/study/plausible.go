@@ -18,10 +18,9 @@ const lightSpeed = 299_792_458.0
 
 // plausibleRange is what a kind of line usually has, and where a warning starts.
 type plausibleRange struct {
-	kind               string
-	usualV, usualZ     [2]float64 // common practice, for the message: velocity (c), Zc (ohm)
-	warnV, warnZ       [2]float64 // outside these a value is far from usual: warned
-	usualText, warnTip string
+	kind           string
+	usualV, usualZ [2]float64 // common practice, for the message: velocity (c), Zc (ohm)
+	warnV, warnZ   [2]float64 // outside these a value is far from usual: warned
 }
 
 // The usual ranges (common practice, no source): overhead lines propagate at 0.9 to
