@@ -4,6 +4,8 @@ import (
 	"math"
 	"math/cmplx"
 	"sort"
+
+	"github.com/telegrapher/telegrapher/propagation"
 )
 
 // Peak is a resonance peak of the gain |Vr/E|: an interior local maximum of a scan,
@@ -171,25 +173,7 @@ func refine(fn func(float64) float64, a, b, x0, f0 float64, max bool) (x, fx flo
 		sign = -1
 	}
 	g := func(x float64) float64 { return sign * fn(x) }
-	const invPhi = 0.6180339887498949 // (√5 - 1)/2
-	c := b - invPhi*(b-a)
-	d := a + invPhi*(b-a)
-	gc, gd := g(c), g(d)
-	for it := 0; it < 200 && b-a > refineTol*math.Abs(a+b)/2; it++ {
-		if gc >= gd {
-			b, d, gd = d, c, gc
-			c = b - invPhi*(b-a)
-			gc = g(c)
-		} else {
-			a, c, gc = c, d, gd
-			d = a + invPhi*(b-a)
-			gd = g(d)
-		}
-	}
-	x, gx := c, gc
-	if gd > gc {
-		x, gx = d, gd
-	}
+	x, gx := propagation.GoldenMax(g, a, b, func(a, b float64) bool { return b-a <= refineTol*math.Abs(a+b)/2 }, 200)
 	if sign*f0 > gx {
 		return x0, f0
 	}

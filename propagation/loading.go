@@ -324,26 +324,9 @@ func (p *profiler) extreme(sign float64) (x, vabs float64) {
 	return bestX, sign * bestV
 }
 
-// goldenMax maximises a unimodal f on [lo, hi] by golden-section search.
+// goldenMax maximises a unimodal f on [lo, hi] by GoldenMax, to 1e-9·(1 + |lo|) m.
 func goldenMax(f func(float64) float64, lo, hi float64) (x, fx float64) {
-	const invPhi = 0.6180339887498949
-	a, b := lo, hi
-	c := b - invPhi*(b-a)
-	d := a + invPhi*(b-a)
-	fc, fd := f(c), f(d)
-	for i := 0; i < 80 && b-a > 1e-9*(1+math.Abs(a)); i++ {
-		if fc > fd {
-			b, d, fd = d, c, fc
-			c = b - invPhi*(b-a)
-			fc = f(c)
-		} else {
-			a, c, fc = c, d, fd
-			d = a + invPhi*(b-a)
-			fd = f(d)
-		}
-	}
-	x = (a + b) / 2
-	return x, f(x)
+	return GoldenMax(f, lo, hi, func(a, b float64) bool { return b-a <= 1e-9*(1+math.Abs(a)) }, 80)
 }
 
 // OpenEndResult is the line energised from the sending bus, held at voltage v, with
