@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"gonum.org/v1/gonum/stat"
 )
 
 // Normal2Pct is the standard normal quantile exceeded with probability 2 %:
@@ -35,8 +37,9 @@ type SwitchingStats struct {
 //
 //	h = (n − 1)·p,  Q = x[⌊h⌋] + (h − ⌊h⌋)·(x[⌊h⌋+1] − x[⌊h⌋])
 //
-// (Hyndman and Fan's definition 7, the default of numpy.percentile and R). It panics on
-// an empty sample.
+// (Hyndman and Fan's definition 7, the default of numpy.percentile and R; gonum's
+// stat.Quantile offers the empirical inverse and definition 4, not this one). It panics
+// on an empty sample.
 //
 // References:
 //
@@ -117,20 +120,13 @@ func Statistics(peaks [][3]float64, toIEC float64) (SwitchingStats, error) {
 	return st, nil
 }
 
-// meanSigma returns the mean and the sample standard deviation (n − 1; 0 for n = 1).
+// meanSigma returns the mean and the sample standard deviation (n − 1; 0 for n = 1),
+// by gonum's stat.MeanStdDev.
 func meanSigma(x []float64) (mean, sigma float64) {
-	for _, v := range x {
-		mean += v
-	}
-	mean /= float64(len(x))
 	if len(x) < 2 {
-		return mean, 0
+		return stat.Mean(x, nil), 0
 	}
-	var ss float64
-	for _, v := range x {
-		ss += (v - mean) * (v - mean)
-	}
-	return mean, math.Sqrt(ss / float64(len(x)-1))
+	return stat.MeanStdDev(x, nil)
 }
 
 // MarginPct returns the margin of a switching impulse withstand level siwl (peak V)
