@@ -99,7 +99,7 @@ func Bergeron(n freqscan.Network, e Energisation, opt BergeronOptions) (*Wavefor
 		dt = defaultStep(2*tauMin, e.Duration) // a fiftieth of the shortest piece
 	}
 	if dt > tauMin {
-		return nil, fmt.Errorf("%w: bergeron: time step %.4g µs exceeds the shortest travel time %.4g µs", ErrSettings, dt*1e6, tauMin*1e6)
+		return nil, settingErr("TimeStep", ErrSettings, "bergeron: time step %.4g µs exceeds the shortest travel time %.4g µs", dt*1e6, tauMin*1e6)
 	}
 	exact := true
 	worstFrac := 0.0 // the largest fraction of a step interpolated in a history

@@ -14,6 +14,7 @@ package main
 // and batch.html, moved into place only when complete, in a folder of its own kind.
 
 import (
+	"context"
 	"errors"
 	"flag"
 	"fmt"
@@ -64,11 +65,11 @@ earlier screening wrote only the files its marker lists are replaced; --force ad
 files to a folder telegrapher did not write, removing nothing; a report's folder and a
 file given as DIR are refused, even with --force. DIR is checked before the screening
 starts.`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			out := fs.String("out", "", "write the summary into folder `DIR` (required)")
 			force := fs.Bool("force", false, "write into DIR even if telegrapher did not make it (overwrites its own file names only)")
 			jobs := fs.Int("jobs", 0, "screen `N` lines at a time (0: one per core)")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				const usage = "usage: telegrapher batch LINES.csv --out DIR [--force] [--jobs N]"
 				if len(args) != 1 {
 					return usagef("telegrapher batch: expected one LINES.csv file, got %d arguments\n%s", len(args), usage)
@@ -98,15 +99,13 @@ starts.`,
 					return err
 				}
 				defer folder.discard() // nothing to do once committed
-				stop := discardOnInterrupt(folder)
-				defer stop()
 				var progress func(int)
 				if isTerminal(stderr) {
 					progress = batchProgressBar(stderr, len(lines), "lines")
 				}
-				results, err := screenInventory(args[0], lines, *jobs, progress)
+				results, err := screenInventory(ctx, args[0], lines, *jobs, progress)
 				if err != nil {
-					return err
+					return folder.interrupted(ctx, err)
 				}
 				if err := writeBatch(results, args[0], folder); err != nil {
 					return err
@@ -139,7 +138,7 @@ type batchResult struct {
 }
 
 // screenLine screens one row.
-func screenLine(file string, bl batchLine) (batchResult, error) {
+func screenLine(ctx context.Context, file string, bl batchLine) (batchResult, error) {
 	st, err := bl.study(file)
 	if err != nil {
 		return batchResult{}, err
@@ -155,7 +154,7 @@ func screenLine(file string, bl batchLine) (batchResult, error) {
 	_, _, yr, _ := st.Network.Energising().Admittances(s)
 	r.OpenEndRisePU = cmplx.Abs(st.Line.Exact(s).VoltageRatio(yr))
 
-	sc, err := computeScan(st)
+	sc, err := computeScan(ctx, st)
 	if err != nil {
 		return batchResult{}, err
 	}
@@ -217,8 +216,9 @@ func sequenceMark(seq string) string {
 }
 
 // screenInventory screens every line on up to jobs goroutines (0 = one per core) and
-// returns the results worst first. The first error (in row order) is returned.
-func screenInventory(file string, lines []batchLine, jobs int, progress func(int)) ([]batchResult, error) {
+// returns the results worst first. The first error (in row order) is returned; when ctx
+// is cancelled, the rows not yet started are skipped and ctx's error is returned.
+func screenInventory(ctx context.Context, file string, lines []batchLine, jobs int, progress func(int)) ([]batchResult, error) {
 	results := make([]batchResult, len(lines))
 	errs := make([]error, len(lines))
 	parallelEach(len(lines), jobs, 200*time.Millisecond, progress, func(i int) {
@@ -227,8 +227,14 @@ func screenInventory(file string, lines []batchLine, jobs int, progress func(int
 				errs[i] = fmt.Errorf("%s: row %d: internal error (a bug, please report it): %v", file, lines[i].Row, p)
 			}
 		}()
-		results[i], errs[i] = screenLine(file, lines[i])
+		if errs[i] = ctx.Err(); errs[i] != nil {
+			return
+		}
+		results[i], errs[i] = screenLine(ctx, file, lines[i])
 	})
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	for _, err := range errs {
 		if err != nil {
 			return nil, err

@@ -13,6 +13,7 @@ package main
 // frequency; a geometry-derived line adds `sequence` (lineSequence, sweep.go).
 
 import (
+	"context"
 	"flag"
 	"fmt"
 	"io"
@@ -36,12 +37,12 @@ short-line models with each one's error against the exact model; the line's clas
 length and by electrical length; and how many nominal-pi sections in cascade keep the
 error under 1 %. With several sections each section is listed and the ABCD is that of
 the whole cascade. --json writes the same as one JSON document.`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			atHz := fs.Float64("at-hz", 0, "evaluate at this frequency in Hz instead of frequency_hz (SIL and no-load rise stay at frequency_hz)")
 			asJSON := fs.Bool("json", false, "write one JSON document to standard output")
 			sweep := fs.Bool("sweep", false, "also list the constants over frequency, 1 Hz to 1 MHz")
 			plotPath := fs.String("plot", "", "with --sweep: write the sweep plot to `FILE` (.png or .svg)")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				atGiven := false
 				fs.Visit(func(f *flag.Flag) { atGiven = atGiven || f.Name == "at-hz" })
 				if atGiven && !(*atHz > 0 && *atHz <= maxAtHz) {

@@ -19,6 +19,7 @@ package main
 // or a shunt) is an input error naming energise.method (exit 2).
 
 import (
+	"context"
 	"errors"
 	"flag"
 	"fmt"
@@ -66,14 +67,14 @@ The summary gives the peak at each end and when, the method's limits, and the do
 frequencies of the transient (Hann window and FFT of the receiving-end voltage) beside
 the resonances of the same network found by a frequency scan. Results are unprotected
 overvoltages (no surge arresters).`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			method := fs.String("method", "", "lattice, bergeron or laplace (default: the study's [energise] method)")
 			compare := fs.Bool("compare", false, "run every method the study allows and print the largest difference")
 			asJSON := fs.Bool("json", false, "write the result as one JSON document")
 			csvPath := fs.String("csv", "", "write the waveforms to this CSV file")
 			plotPath := fs.String("plot", "", "write the waveforms plot (.png or .svg)")
 			diagramPath := fs.String("diagram", "", "write the lattice diagram (.png or .svg)")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				if *method != "" && !validMethod(*method) {
 					return usagef("telegrapher energise: --method %s: must be lattice, bergeron or laplace", *method)
 				}

@@ -14,6 +14,7 @@ package main
 //	                                                      report.LoadabilityPlot
 
 import (
+	"context"
 	"flag"
 	"fmt"
 	"io"
@@ -59,11 +60,11 @@ line under study is placed on the curve (lines of its make, scaled in length).
 
 --plot F writes one figure (PNG or SVG by extension) with three panels: voltage
 profiles for a few loadings, reactive power against loading, and the loadability curve.`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			asJSON := fs.Bool("json", false, "write the results as one JSON document")
 			plotPath := fs.String("plot", "", "write the figure to `F` (.png or .svg)")
 			target := fs.Float64("target-pu", 1.0, "open-end voltage `X` (pu of the sending end) the receiving-end reactor should give")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				if !(*target > 0) || *target > 2 || math.IsNaN(*target) {
 					return usagef("telegrapher loading: --target-pu: must be > 0 and <= 2, got %g", *target)
 				}

@@ -21,6 +21,7 @@ package main
 // computeRemedy returns an input error (exit 2) when the study has no [targets].
 
 import (
+	"context"
 	"flag"
 	"fmt"
 	"io"
@@ -65,10 +66,10 @@ each target; where nothing meets the targets, the closest case and the target th
 binds. --json writes feasible, changes, before, after, binding, cost, margins_left;
 --plot writes the trade-offs (first resonance against reactor rating with the watched
 harmonics marked; u2 against the pre-insertion resistor).`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			asJSON := fs.Bool("json", false, "write the results as one JSON document")
 			plotPath := fs.String("plot", "", "write the trade-off plots to `F` (.png or .svg)")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				st, err := studyArg("remedy", args, stderr, [2]string{"plot", *plotPath})
 				if err != nil {
 					return err

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"fmt"
 	"math"
@@ -141,7 +142,7 @@ func TestRemedyMovesFifthHarmonicResonance(t *testing.T) {
 	band := st.Scan.WatchBand
 	lo, hi := 5*(1-band), 5*(1+band)
 	// Built to resonate inside the band (the study's premise, checked by the scan).
-	before, err := computeScan(st)
+	before, err := computeScan(context.Background(), st)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -152,7 +153,7 @@ func TestRemedyMovesFifthHarmonicResonance(t *testing.T) {
 		t.Fatalf("expected a feasible receiving-end reactor, got feasible=%v changes=%+v binding=%q", res.Feasible, res.Changes, res.Binding)
 	}
 	edited := remedyParse(t, "edited.toml", remedyApply(t, remedyWithout(t, text), res.Changes))
-	after, err := computeScan(edited)
+	after, err := computeScan(context.Background(), edited)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -181,7 +182,7 @@ func TestRemedyMovesFifthHarmonicResonance(t *testing.T) {
 	ch := res.Changes
 	ch.ReactorMvarReceiving = &less
 	cheaper := remedyParse(t, "cheaper.toml", remedyApply(t, remedyWithout(t, text), ch))
-	cs, err := computeScan(cheaper)
+	cs, err := computeScan(context.Background(), cheaper)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -442,7 +443,7 @@ func TestRemedyCandidateMatchesEditedStudy(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	sc, err := computeScan(edited)
+	sc, err := computeScan(context.Background(), edited)
 	if err != nil {
 		t.Fatal(err)
 	}

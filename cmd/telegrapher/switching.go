@@ -19,6 +19,7 @@ package main
 //	printSwitching(w, r)           the text summary
 
 import (
+	"context"
 	"flag"
 	"fmt"
 	"io"
@@ -74,10 +75,10 @@ metal-oxide curve) or vi_ka_kv = [[kA, kV], ...].
 --json writes shots, u2_pu, ut_pu, u2_kv, ut_kv, u2_fit_pu, case_u2_pu, case_ut_pu,
 max_pu, mean_pu, sigma_pu, phase_peaks_pu (signed, EMF base) and margin_pct; --plot
 writes the distribution on a normal-probability scale and the worst shot's waveforms.`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			asJSON := fs.Bool("json", false, "write the results as one JSON document")
 			plotPath := fs.String("plot", "", "write the distribution and the worst shot to `F` (.png or .svg)")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				st, err := studyArg("switching", args, stderr, [2]string{"plot", *plotPath})
 				if err != nil {
 					return err
