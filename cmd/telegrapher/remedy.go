@@ -14,7 +14,7 @@ package main
 //	                                          target; report.RemedyResistorPlot: u2 against
 //	                                          the pre-insertion resistor)
 //	printRemedy(w, r)                         the text summary
-//	remedyReportPart(st, status)              the report's "remedies" section (with the
+//	remedyReportPart(ctx, st, status)             the report's "remedies" section (with the
 //	                                          plots for the report to write), ok false
 //	                                          when the study has no [targets]
 //
@@ -74,7 +74,7 @@ harmonics marked; u2 against the pre-insertion resistor).`,
 				if err != nil {
 					return err
 				}
-				res, err := computeRemedyProgress(st, newStatusLine(stderr))
+				res, err := computeRemedyProgress(ctx, st, newStatusLine(stderr))
 				if err != nil {
 					return err
 				}
@@ -175,16 +175,18 @@ type remedyResult struct {
 }
 
 // computeRemedy searches st's levers for the cheapest change meeting its targets.
-func computeRemedy(st *study.Study) (remedyResult, error) { return computeRemedyProgress(st, nil) }
+func computeRemedy(st *study.Study) (remedyResult, error) {
+	return computeRemedyProgress(context.Background(), st, nil)
+}
 
-func computeRemedyProgress(st *study.Study, status *statusLine) (remedyResult, error) {
+func computeRemedyProgress(ctx context.Context, st *study.Study, status *statusLine) (remedyResult, error) {
 	var res remedyResult
 	spec := st.Remedy()
 	if !spec.Present {
 		return res, usagef("%s: targets: the study has no [targets]; give e.g. [targets] max_open_end_pu = 1.05 and [levers] reactor_mvar_receiving = [0, 300]", st.File)
 	}
 	st = memoLines(st)
-	rs, err := newRemedySearch(st, status)
+	rs, err := newRemedySearch(ctx, st, status)
 	if err != nil {
 		return res, err
 	}
@@ -502,11 +504,11 @@ type remedyFigure struct {
 
 // remedyReportPart returns the report's "remedies" section of st and its plots; ok is
 // false when st has no [targets] (the report then has no such section).
-func remedyReportPart(st *study.Study, status *statusLine) (sec report.Section, figs []remedyFigure, ok bool, err error) {
+func remedyReportPart(ctx context.Context, st *study.Study, status *statusLine) (sec report.Section, figs []remedyFigure, ok bool, err error) {
 	if !st.Remedy().Present {
 		return sec, nil, false, nil
 	}
-	r, err := computeRemedyProgress(st, status)
+	r, err := computeRemedyProgress(ctx, st, status)
 	if err != nil {
 		return sec, nil, true, err
 	}

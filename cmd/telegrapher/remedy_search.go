@@ -47,11 +47,12 @@ package main
 // whose removal gives the cheapest change meeting the rest is named.
 
 import (
-	"errors"
+	"context"
 	"fmt"
 	"math"
 	"sort"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 	"github.com/telegrapher/telegrapher/freqscan"
 	"github.com/telegrapher/telegrapher/propagation"
@@ -126,6 +127,7 @@ type remedyEval struct {
 
 // remedySearch holds one search's state.
 type remedySearch struct {
+	ctx      context.Context // cancelled: the search stops at the next candidate
 	st       *study.Study
 	spec     study.RemedySpec
 	freqs    []float64
@@ -159,9 +161,10 @@ func (rs *remedySearch) setStage(name string) {
 // remedyPIRSample is one point of u2 against the pre-insertion resistor.
 type remedyPIRSample struct{ Ohm, U2 float64 }
 
-// newRemedySearch prepares a search of st.
-func newRemedySearch(st *study.Study, status *statusLine) (*remedySearch, error) {
-	rs := &remedySearch{st: st, spec: st.Remedy(), omega: 2 * math.Pi * st.Frequency, status: status,
+// newRemedySearch prepares a search of st; it stops at the next candidate once ctx
+// ends, with ctx's error.
+func newRemedySearch(ctx context.Context, st *study.Study, status *statusLine) (*remedySearch, error) {
+	rs := &remedySearch{ctx: ctx, st: st, spec: st.Remedy(), omega: 2 * math.Pi * st.Frequency, status: status,
 		pirSamples: map[[2]float64][]remedyPIRSample{}}
 	sc := st.Scan
 	if !(sc.FMin > 0 && sc.FMax > sc.FMin) || sc.Points < 2 {
@@ -173,12 +176,12 @@ func newRemedySearch(st *study.Study, status *statusLine) (*remedySearch, error)
 		rs.freqs = freqscan.LinearGrid(nil, sc.FMin, sc.FMax, sc.Points)
 	}
 	if rs.spec.Targets.Switching() {
-		if err := switchingApplicable(st); err != nil {
+		if err := analysis.SwitchingApplicable(st); err != nil {
 			return nil, err
 		}
-		ml, err := waves.NewModalLine(st.Line, st.Zero, rs.omega)
+		ml, err := analysis.ModalLine(st)
 		if err != nil {
-			return nil, usagef("%s: line: %v", st.File, err)
+			return nil, err
 		}
 		rs.modal, rs.hasModal = ml, true
 	}
@@ -294,43 +297,30 @@ func remedyWatchedGain(st *study.Study, freqs []float64) (gain, first float64) {
 	return gain, first
 }
 
-// remedySwitching runs the statistical switching study of the modified study cst (as
-// computeSwitching does, with the study's seed and settings) and returns u2 (pu of
+// remedySwitching runs the statistical switching study of the modified study cst
+// (analysis.SwitchingFiguresOf, as the switching command, with the study's seed and
+// settings) and returns u2 (pu of
 // Us·√2/√3) and the margin to siwl (%, when set). With controlled closing the shots
 // follow waves.ControlledShots instead of random closing.
 func (rs *remedySearch) remedySwitching(cst *study.Study, controlled bool) (u2, margin float64, err error) {
-	set := cst.Switching
-	net, ws, arr := switchingSetup(cst, rs.modal)
-	net.Arresters = arr
-	if controlled {
-		ws.Controlled, ws.ControlledSigma = true, rs.spec.Levers.ControlledSigma
-	}
-	r, err := waves.Switching(net, ws, nil)
+	f, err := analysis.SwitchingFiguresOf(rs.ctx, cst, rs.modal, controlled, rs.spec.Levers.ControlledSigma)
 	if err != nil {
-		if errors.Is(err, waves.ErrSwitching) {
-			return 0, 0, usagef("%s: switching: %v", cst.File, err)
-		}
 		return 0, 0, err
 	}
 	rs.runs++
-	peaks := make([][3]float64, len(r.Shots))
-	for i, sh := range r.Shots {
-		peaks[i] = sh.Peak
+	if f.Margin != nil {
+		margin = *f.Margin
 	}
-	stats, err := waves.Statistics(peaks, cst.Voltage/cst.Us)
-	if err != nil {
-		return 0, 0, err
-	}
-	if set.SIWL > 0 {
-		margin = waves.MarginPct(set.SIWL, set.Ks, set.Kcd, stats.U2*cst.Us*math.Sqrt2/math.Sqrt(3))
-	}
-	return stats.U2, margin, nil
+	return f.Stats.U2, margin, nil
 }
 
 // evalFreq evaluates a candidate on the frequency-domain measures.
 func (rs *remedySearch) evalFreq(c remedyCandidate) (remedyFigs, error) {
-	cst := remedyStudy(rs.st, c)
 	var f remedyFigs
+	if err := rs.ctx.Err(); err != nil {
+		return f, err // cancelled: no more candidates
+	}
+	cst := remedyStudy(rs.st, c)
 	var err error
 	if f.OpenEnd, err = remedyOpenEnd(cst); err != nil {
 		return f, fmt.Errorf("%s: line: %v", rs.st.File, err)

@@ -205,7 +205,7 @@ func TestRemedyMovesFifthHarmonicResonance(t *testing.T) {
 func TestRemedyControlledClosingLowersU2(t *testing.T) {
 	t.Parallel()
 	st := remedyParse(t, "remedy_switching.toml", remedyReadFile(t, "remedy_switching.toml"))
-	rs, err := newRemedySearch(st, nil)
+	rs, err := newRemedySearch(context.Background(), st, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -419,7 +419,7 @@ func TestRemedyCandidateMatchesEditedStudy(t *testing.T) {
 	t.Parallel()
 	text := remedyReadFile(t, "remedy_switching.toml")
 	st := remedyParse(t, "remedy_switching.toml", text)
-	rs, err := newRemedySearch(st, nil)
+	rs, err := newRemedySearch(context.Background(), st, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -491,7 +491,7 @@ func TestRemedyReportPart(t *testing.T) {
 	t.Parallel()
 	text := remedyReadFile(t, "remedy_fifth.toml")
 	st := remedyParse(t, "remedy_fifth.toml", text)
-	sec, figs, ok, err := remedyReportPart(st, nil)
+	sec, figs, ok, err := remedyReportPart(context.Background(), st, nil)
 	if err != nil || !ok {
 		t.Fatalf("ok=%v err=%v", ok, err)
 	}
@@ -512,7 +512,7 @@ func TestRemedyReportPart(t *testing.T) {
 		t.Errorf("non-finite value in the section: %s", where)
 	}
 	// Without [targets] there is no section.
-	if _, _, ok, err := remedyReportPart(remedyParse(t, "plain.toml", remedyWithout(t, text)), nil); ok || err != nil {
+	if _, _, ok, err := remedyReportPart(context.Background(), remedyParse(t, "plain.toml", remedyWithout(t, text)), nil); ok || err != nil {
 		t.Errorf("study without [targets]: ok=%v err=%v", ok, err)
 	}
 }
@@ -523,7 +523,7 @@ func TestRemedyCountsAgreeWithProgress(t *testing.T) {
 	t.Parallel()
 	st := remedyParse(t, "remedy_fifth.toml", remedyReadFile(t, "remedy_fifth.toml"))
 	var buf bytes.Buffer
-	res, err := computeRemedyProgress(st, &statusLine{w: &buf})
+	res, err := computeRemedyProgress(context.Background(), st, &statusLine{w: &buf})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -33,6 +33,7 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 )
@@ -149,10 +150,10 @@ func (rr *reportRun) sweepFigure() (report.Figure, error) {
 // plot, the worst shot's waveforms (plot and COMTRADE), the shots in switching.csv.
 func (rr *reportRun) switchingSection() (report.Section, error) {
 	const id, title = "switching", "Statistical switching (three-phase)"
-	if err := switchingApplicable(rr.st); err != nil {
+	if err := analysis.SwitchingApplicable(rr.st); err != nil {
 		return notRunSection(id, title, err), nil
 	}
-	r, err := computeSwitchingProgress(rr.st, rr.status.Shots())
+	r, err := computeSwitchingProgress(rr.ctx, rr.st, rr.status.Shots())
 	if err != nil {
 		if cannotRun(err) {
 			return notRunSection(id, title, err), nil
@@ -404,7 +405,7 @@ var reportParts = []reportPart{
 
 // remedySection is the remedies part, present only when the study has [targets].
 func (rr *reportRun) remedySection() (report.Section, bool, error) {
-	sec, figs, ok, err := remedyReportPart(rr.st, rr.status)
+	sec, figs, ok, err := remedyReportPart(rr.ctx, rr.st, rr.status)
 	if !ok || err != nil {
 		return sec, ok, err
 	}

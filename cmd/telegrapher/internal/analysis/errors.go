@@ -24,10 +24,11 @@ func (e *InputError) Error() string {
 	return e.File + ": " + e.Key + ": " + e.Msg
 }
 
-// IsInputError reports whether err is or wraps an *InputError.
+// IsInputError reports whether err is or wraps an *InputError or a *MethodError.
 func IsInputError(err error) bool {
 	var ie *InputError
-	return errors.As(err, &ie)
+	var me *MethodError
+	return errors.As(err, &ie) || errors.As(err, &me)
 }
 
 // inputf returns an *InputError about key of file.
@@ -40,8 +41,8 @@ func inputf(file, key, format string, a ...any) *InputError {
 type Command string
 
 const (
-	Energise  Command = "energise"
-	Switching Command = "switching"
+	CmdEnergise  Command = "energise"
+	CmdSwitching Command = "switching"
 )
 
 // settingKeys maps the settings of the library packages (the Setting of a
@@ -49,13 +50,13 @@ const (
 // where a library field meets a study key. A setting missing here is reported on the
 // command's table ("switching").
 var settingKeys = map[Command]map[string]string{
-	Energise: {
+	CmdEnergise: {
 		"TimeStep":  "energise.time_step_us",
 		"Duration":  "energise.duration_ms",
 		"TrappedPU": "energise.trapped_pu",
 		"CloseDeg":  "energise.close_deg",
 	},
-	Switching: {
+	CmdSwitching: {
 		"Shots":        "switching.shots",
 		"CloseDeg":     "switching.close_deg",
 		"PoleSigma":    "switching.pole_sigma_ms",
