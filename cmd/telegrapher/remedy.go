@@ -31,6 +31,7 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 	"github.com/telegrapher/telegrapher/freqscan"
@@ -203,7 +204,10 @@ func computeRemedyProgress(ctx context.Context, st *study.Study, status *statusL
 		if err != nil {
 			return e, remedyFigures{}, err
 		}
-		g, first := remedyWatchedGain(remedyStudy(st, c), rs.freqs)
+		g, first, err := analysis.WatchedGain(ctx, remedyStudy(st, c), rs.freqs)
+		if err != nil {
+			return e, remedyFigures{}, err
+		}
 		e.figs.Gain, e.figs.FirstResonanceHz = g, first
 		e = rs.judge(c, e.figs)
 		return e, figuresJSON(e.figs, st.Frequency), nil
@@ -321,7 +325,10 @@ func computeRemedyProgress(ctx context.Context, st *study.Study, status *statusL
 			} else {
 				sc.ReactorSending = q
 			}
-			g, first := remedyWatchedGain(remedyStudy(st, sc), rs.freqs)
+			g, first, err := analysis.WatchedGain(ctx, remedyStudy(st, sc), rs.freqs)
+			if err != nil {
+				return res, err
+			}
 			res.sweepMvar = append(res.sweepMvar, q/1e6)
 			res.sweepFirst = append(res.sweepFirst, first/st.Frequency)
 			res.sweepGain = append(res.sweepGain, g)

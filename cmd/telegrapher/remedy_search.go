@@ -48,7 +48,6 @@ package main
 
 import (
 	"context"
-	"fmt"
 	"math"
 	"sort"
 
@@ -166,14 +165,9 @@ type remedyPIRSample struct{ Ohm, U2 float64 }
 func newRemedySearch(ctx context.Context, st *study.Study, status *statusLine) (*remedySearch, error) {
 	rs := &remedySearch{ctx: ctx, st: st, spec: st.Remedy(), omega: 2 * math.Pi * st.Frequency, status: status,
 		pirSamples: map[[2]float64][]remedyPIRSample{}}
-	sc := st.Scan
-	if !(sc.FMin > 0 && sc.FMax > sc.FMin) || sc.Points < 2 {
-		return nil, usagef("%s: scan: the grid needs 0 < f_min_hz < f_max_hz and points >= 2", st.File)
-	}
-	if sc.Log {
-		rs.freqs = freqscan.LogGrid(nil, sc.FMin, sc.FMax, sc.Points)
-	} else {
-		rs.freqs = freqscan.LinearGrid(nil, sc.FMin, sc.FMax, sc.Points)
+	var err error
+	if rs.freqs, err = analysis.ScanGrid(st); err != nil {
+		return nil, err
 	}
 	if rs.spec.Targets.Switching() {
 		if err := analysis.SwitchingApplicable(st); err != nil {
@@ -243,60 +237,6 @@ func remedyStudy(st *study.Study, c remedyCandidate) *study.Study {
 	return &cp
 }
 
-// remedyOpenEnd returns the no-load rise |Vr/Vs| at the system frequency with the
-// line-connected shunts, as `loading` computes it (propagation.OpenEnd).
-func remedyOpenEnd(st *study.Study) (float64, error) {
-	s := complex(0, 2*math.Pi*st.Frequency)
-	var ys, yr complex128
-	for _, sh := range st.Network.Shunts {
-		if !sh.OnLine {
-			continue
-		}
-		if sh.End == freqscan.Sending {
-			ys += sh.Admittance(s)
-		} else {
-			yr += sh.Admittance(s)
-		}
-	}
-	r, err := propagation.OpenEnd(st.Line, 2*math.Pi*st.Frequency, st.Voltage, ys, yr)
-	if err != nil {
-		return 0, err
-	}
-	return r.Rise, nil
-}
-
-// remedyWatchedGain returns the largest gain within the watch band of a watched
-// harmonic (screened as `scan` does: freqscan.Scan, Peaks, Screen, triplens on the
-// zero sequence where it exists) and the lowest positive-sequence gain peak above the
-// fundamental (0 when none).
-func remedyWatchedGain(st *study.Study, freqs []float64) (gain, first float64) {
-	sc := st.Scan
-	pos := freqscan.Scan(nil, st.Network, freqs)
-	posPeaks := freqscan.Peaks(st.Network, pos)
-	var zero []freqscan.Point
-	var zeroPeaks []freqscan.Peak
-	if st.ZeroNetwork != nil {
-		zero = freqscan.Scan(nil, *st.ZeroNetwork, freqs)
-		zeroPeaks = freqscan.Peaks(*st.ZeroNetwork, zero)
-	}
-	scr := freqscan.Screen(st.Network, pos, posPeaks, st.ZeroNetwork, zero, zeroPeaks, freqscan.ScreenSettings{
-		Fundamental: st.Frequency, FMax: sc.FMax, Watch: sc.WatchHarmonics, GainLimit: sc.GainLimit,
-		WatchBand: sc.WatchBand, BackgroundPct: sc.BackgroundPct, PlanningPct: sc.PlanningPct,
-	})
-	for _, r := range scr.Rows {
-		if r.Watched {
-			gain = math.Max(gain, r.BandGain)
-		}
-	}
-	for _, p := range posPeaks {
-		if p.F > 1.05*st.Frequency && (p.Unbounded || p.Gain > 1) {
-			first = p.F
-			break
-		}
-	}
-	return gain, first
-}
-
 // remedySwitching runs the statistical switching study of the modified study cst
 // (analysis.SwitchingFiguresOf, as the switching command, with the study's seed and
 // settings) and returns u2 (pu of
@@ -322,11 +262,13 @@ func (rs *remedySearch) evalFreq(c remedyCandidate) (remedyFigs, error) {
 	}
 	cst := remedyStudy(rs.st, c)
 	var err error
-	if f.OpenEnd, err = remedyOpenEnd(cst); err != nil {
-		return f, fmt.Errorf("%s: line: %v", rs.st.File, err)
+	if f.OpenEnd, err = analysis.OpenEndRise(cst); err != nil {
+		return f, err
 	}
 	if rs.spec.Targets.HasGainWatched {
-		f.Gain, f.FirstResonanceHz = remedyWatchedGain(cst, rs.freqs)
+		if f.Gain, f.FirstResonanceHz, err = analysis.WatchedGain(rs.ctx, cst, rs.freqs); err != nil {
+			return f, err
+		}
 	}
 	rs.evals++
 	if n := len(rs.byStage); n == 0 || rs.byStage[n-1].Stage != rs.stage {

@@ -13,6 +13,7 @@ import (
 
 	"gonum.org/v1/plot/vg"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 )
@@ -429,11 +430,14 @@ func TestRemedyCandidateMatchesEditedStudy(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	open, err := remedyOpenEnd(cst)
+	open, err := analysis.OpenEndRise(cst)
 	if err != nil {
 		t.Fatal(err)
 	}
-	gain, _ := remedyWatchedGain(cst, rs.freqs)
+	gain, _, err := analysis.WatchedGain(context.Background(), cst, rs.freqs)
+	if err != nil {
+		t.Fatal(err)
+	}
 	edited := remedyParse(t, "edited.toml", remedyApply(t, remedyWithout(t, text), changesJSON(c, st.Remedy().Levers)))
 	sw, err := computeSwitching(edited)
 	if err != nil {

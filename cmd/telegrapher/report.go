@@ -845,8 +845,8 @@ func (rr *reportRun) loadingSection() (report.Section, error) {
 	const id, title = "loading", "Loading against SIL"
 	r, err := computeLoading(rr.st, 1.0)
 	if err != nil {
-		// computeLoading's errors are problems with the study's data.
-		return notRunSection(id, title, fmt.Errorf("%s: %v", rr.st.File, err)), nil
+		// computeLoading's errors are problems with the study's data (FILE: key: problem).
+		return notRunSection(id, title, err), nil
 	}
 	sec := report.Section{ID: id, Title: title, Verdict: report.Pass, Notes: r.Notes}
 	o, la := r.OpenEnd, r.Loadability

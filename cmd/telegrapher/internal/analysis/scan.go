@@ -65,13 +65,18 @@ func checkGrid(st *study.Study) error {
 	return nil
 }
 
-// sequence scans network n on freqs and finds its peaks and driving-point resonances.
-func sequence(ctx context.Context, n freqscan.Network, freqs []float64) (Sequence, error) {
+// sequence scans network n on freqs and finds its peaks and, with zres, its
+// driving-point resonances.
+func sequence(ctx context.Context, n freqscan.Network, freqs []float64, zres bool) (Sequence, error) {
 	pts, err := freqscan.ScanContext(ctx, nil, n, freqs)
 	if err != nil {
 		return Sequence{}, err
 	}
-	return Sequence{Network: n, Points: pts, Peaks: freqscan.Peaks(n, pts), ZRes: freqscan.ImpedanceResonances(n, pts)}, nil
+	sq := Sequence{Network: n, Points: pts, Peaks: freqscan.Peaks(n, pts)}
+	if zres {
+		sq.ZRes = freqscan.ImpedanceResonances(n, pts)
+	}
+	return sq, nil
 }
 
 // Scan scans the study's positive-sequence network (and the zero-sequence one when
@@ -82,28 +87,71 @@ func Scan(ctx context.Context, st *study.Study) (*ScanResult, error) {
 	if err := checkGrid(st); err != nil {
 		return nil, err
 	}
-	sc := st.Scan
-	res := &ScanResult{Log: sc.Log, Freqs: grid(st, sc.Points)}
+	res, err := screen(ctx, st, grid(st, st.Scan.Points), true)
+	if err != nil {
+		return nil, err
+	}
+	if st.Scan.ShortCircuitRange[1] > 0 {
+		if res.Strength, err = SourceStrength(ctx, st); err != nil {
+			return nil, err
+		}
+	}
+	return res, nil
+}
+
+// screen scans both sequence networks on freqs and screens the harmonics: the part
+// of Scan the remedy search repeats for every candidate (WatchedGain), without the
+// driving-point resonances unless zres.
+func screen(ctx context.Context, st *study.Study, freqs []float64, zres bool) (*ScanResult, error) {
+	res := &ScanResult{Log: st.Scan.Log, Freqs: freqs}
 	var err error
-	if res.Positive, err = sequence(ctx, st.Network, res.Freqs); err != nil {
+	if res.Positive, err = sequence(ctx, st.Network, freqs, zres); err != nil {
 		return nil, err
 	}
 	var zeroPts []freqscan.Point
 	var zeroPeaks []freqscan.Peak
 	if st.ZeroNetwork != nil {
-		z, err := sequence(ctx, *st.ZeroNetwork, res.Freqs)
+		z, err := sequence(ctx, *st.ZeroNetwork, freqs, zres)
 		if err != nil {
 			return nil, err
 		}
 		res.Zero, zeroPts, zeroPeaks = &z, z.Points, z.Peaks
 	}
 	res.Screen = freqscan.Screen(st.Network, res.Positive.Points, res.Positive.Peaks, st.ZeroNetwork, zeroPts, zeroPeaks, screenSettings(st))
-	if sc.ShortCircuitRange[1] > 0 {
-		if res.Strength, err = SourceStrength(ctx, st); err != nil {
-			return nil, err
+	return res, nil
+}
+
+// ScanGrid returns the frequencies (Hz) of the study's scan grid, or an *InputError
+// when [scan] gives none.
+func ScanGrid(st *study.Study) ([]float64, error) {
+	if err := checkGrid(st); err != nil {
+		return nil, err
+	}
+	return grid(st, st.Scan.Points), nil
+}
+
+// WatchedGain returns the largest gain within the watch band of a watched harmonic
+// (screened as Scan screens them, triplens on the zero sequence where it exists) and
+// the lowest positive-sequence gain peak above 1.05 times the fundamental that
+// magnifies (Hz; 0 when none), on the grid freqs (ScanGrid): the remedy search's
+// harmonic measures.
+func WatchedGain(ctx context.Context, st *study.Study, freqs []float64) (gain, first float64, err error) {
+	res, err := screen(ctx, st, freqs, false)
+	if err != nil {
+		return 0, 0, err
+	}
+	for _, r := range res.Screen.Rows {
+		if r.Watched {
+			gain = math.Max(gain, r.BandGain)
 		}
 	}
-	return res, nil
+	for _, p := range res.Positive.Peaks {
+		if p.F > 1.05*st.Frequency && (p.Unbounded || p.Gain > 1) {
+			first = p.F
+			break
+		}
+	}
+	return gain, first, nil
 }
 
 // screenSettings are the harmonic screening settings of [scan].
