@@ -25,12 +25,8 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"math/cmplx"
-	"sort"
 	"strings"
 
-	"github.com/mjibson/go-dsp/fft"
-	"github.com/mjibson/go-dsp/window"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
@@ -324,11 +320,12 @@ func computeEnergise(st *study.Study, method string) (energiseResult, error) {
 	if method == "" {
 		method = "laplace"
 	}
-	e, durationHow := analysis.Energisation(st)
-	w, d, limits, err := analysis.EnergiseWaveform(st, method, e)
+	a, err := analysis.Energise(st, method)
 	if err != nil {
 		return energiseResult{}, err
 	}
+	e, durationHow, w, d, limits := a.Settings, a.DurationHow, a.Wave, a.Diagram, a.Limits
+	method = a.Method
 	base := st.Voltage * math.Sqrt2 / math.Sqrt(3) / 1e3
 	res := energiseResult{
 		Method:           method,
@@ -339,7 +336,7 @@ func computeEnergise(st *study.Study, method string) (energiseResult, error) {
 		DurationMs:       e.Duration * 1e3,
 		DurationHow:      durationHow,
 		TimeStepUs:       w.Step * 1e6,
-		TravelTimeMs:     analysis.TravelTime(st) * 1e3,
+		TravelTimeMs:     a.TravelTime * 1e3,
 		Limits:           limits,
 		FrontOvershootPU: w.Overshoot,
 		Notes:            w.Notes,
@@ -370,25 +367,7 @@ func computeEnergise(st *study.Study, method string) (energiseResult, error) {
 			res.PeakAnyPU, res.PeakAnyWhere, res.PeakAnyXKm = pk, "junction "+j.Name, j.X/1e3
 		}
 	}
-	res.Resonances = scanResonances(st, w.Step)
-	res.Spectrum = transientSpectrum(w.Receiving, w.Step, st.Frequency, res.Resonances)
-	return res, nil
-}
-
-// scanResonances returns the resonance peaks of |Vr/E| of the energised network on a
-// grid from 1 Hz to the lesser of 10 kHz and the transient's Nyquist frequency, by the
-// scan's own peak finder (freqscan.Peaks).
-func scanResonances(st *study.Study, dt float64) []energiseResonance {
-	net := st.Network.Energising()
-	top := math.Min(10e3, 0.5/dt)
-	const n = 6000
-	freqs := make([]float64, n)
-	for i := range freqs {
-		freqs[i] = 1 + (top-1)*float64(i)/(n-1)
-	}
-	pts := freqscan.Scan(nil, net, freqs)
-	var out []energiseResonance
-	for _, p := range freqscan.Peaks(net, pts) {
+	for _, p := range a.Resonances {
 		r := energiseResonance{FHz: p.F, Harmonic: p.F / st.Frequency, Unbounded: p.Unbounded}
 		if !p.Unbounded && !math.IsInf(p.Gain, 0) && !math.IsNaN(p.Gain) {
 			g := p.Gain
@@ -396,210 +375,33 @@ func scanResonances(st *study.Study, dt float64) []energiseResonance {
 		} else {
 			r.Unbounded = true
 		}
-		out = append(out, r)
+		res.Resonances = append(res.Resonances, r)
 	}
-	return out
-}
-
-// transientSpectrum finds the dominant frequencies of the transient v (step dt): the
-// deviation from its mean, Hann-windowed (go-dsp window.Hann), zero-padded to eight
-// times its length and transformed (go-dsp fft.FFTReal); the local maxima of the
-// magnitude above 10 % of the largest (above 2/duration), refined by a parabola through three bins,
-// the four largest by frequency.
-func transientSpectrum(v []float64, dt, f0 float64, res []energiseResonance) energiseSpectrum {
-	sp := energiseSpectrum{Window: "Hann (go-dsp), zero-padded x8"}
-	n := len(v)
-	if n < 8 {
-		return sp
+	res.Spectrum = energiseSpectrum{ResolutionHz: a.Spectrum.Resolution, Window: a.Spectrum.Window}
+	for _, d := range a.Spectrum.Dominant {
+		res.Spectrum.Dominant = append(res.Spectrum.Dominant, energiseFrequency{FHz: d.F, Harmonic: d.F / st.Frequency, Relative: d.Relative, NearestScan: d.NearestScan})
 	}
-	duration := float64(n-1) * dt
-	sp.ResolutionHz = 1 / duration
-	// Long waveforms: decimate to at most 65,536 samples (the spectrum of interest
-	// lies far below the Nyquist frequency of the decimated record).
-	step := 1
-	for n/step > 65536 {
-		step *= 2
-	}
-	m := n / step
-	x := make([]float64, m)
-	var mean float64
-	for i := range x {
-		x[i] = v[i*step]
-		mean += x[i]
-	}
-	mean /= float64(m)
-	for i := range x {
-		x[i] -= mean
-	}
-	window.Apply(x, window.Hann)
-	size := 1
-	for size < 8*m {
-		size *= 2
-	}
-	padded := make([]float64, size)
-	copy(padded, x)
-	spec := fft.FFTReal(padded)
-	mag := make([]float64, size/2)
-	for i := range mag {
-		mag[i] = cmplx.Abs(spec[i])
-	}
-	df := 1 / (float64(size) * dt * float64(step))
-	// Below two resolutions (2/duration) a component is not told from the mean and
-	// the window: those are left out.
-	lowest := max(int(math.Ceil(2*sp.ResolutionHz/df)), 1)
-	type cand struct{ f, a float64 }
-	var cs []cand
-	var top float64
-	for i := lowest; i < len(mag)-1; i++ {
-		if mag[i] > mag[i-1] && mag[i] >= mag[i+1] {
-			a, b, c := mag[i-1], mag[i], mag[i+1]
-			off := 0.0
-			if den := a - 2*b + c; den != 0 {
-				off = 0.5 * (a - c) / den
-			}
-			cs = append(cs, cand{(float64(i) + off) * df, b})
-			top = math.Max(top, b)
-		}
-	}
-	if top == 0 {
-		return sp
-	}
-	kept := cs[:0]
-	for _, c := range cs {
-		if c.a >= 0.1*top {
-			kept = append(kept, cand{c.f, c.a / top})
-		}
-	}
-	cs = kept
-	sort.Slice(cs, func(i, j int) bool { return cs[i].a > cs[j].a })
-	if len(cs) > 4 {
-		cs = cs[:4]
-	}
-	sort.Slice(cs, func(i, j int) bool { return cs[i].f < cs[j].f })
-	for _, c := range cs {
-		d := energiseFrequency{FHz: c.f, Harmonic: c.f / f0, Relative: c.a}
-		best := math.Inf(1)
-		for _, r := range res {
-			if dd := math.Abs(r.FHz - c.f); dd < best {
-				best, d.NearestScan = dd, r.FHz
-			}
-		}
-		sp.Dominant = append(sp.Dominant, d)
-	}
-	return sp
+	return res, nil
 }
 
 // compareEnergise runs every method the study allows on the Bergeron time step (or
 // the study's time_step_us) and returns the largest receiving-end differences.
 func compareEnergise(st *study.Study) (*energiseComparison, error) {
-	e, _ := analysis.Energisation(st)
-	cmp := &energiseComparison{Peaks: map[string]float64{}, traces: map[string][]float64{}}
-	ber, _, _, err := analysis.EnergiseWaveform(st, "bergeron", e)
+	a, err := analysis.CompareEnergise(st)
 	if err != nil {
 		return nil, err
 	}
-	e.TimeStep = ber.Step
-	cmp.TimeStepUs = ber.Step * 1e6
-	for _, m := range []string{"lattice", "bergeron", "laplace"} {
-		w := ber
-		if m != "bergeron" {
-			var err error
-			w, _, _, err = analysis.EnergiseWaveform(st, m, e)
-			var me *analysis.MethodError
-			if errors.As(err, &me) {
-				cmp.Skipped = append(cmp.Skipped, m+": "+err.Error())
-				continue
-			}
-			if err != nil {
-				return nil, err
-			}
-		}
-		cmp.Methods = append(cmp.Methods, m)
-		cmp.traces[m] = w.Receiving
-		cmp.Peaks[m], _ = waves.Peak(w.Receiving)
-	}
-	tau := analysis.TravelTime(st)
-	freqDep := lineFrequencyDependent(st)
-	for i, a := range cmp.Methods {
-		for _, b := range cmp.Methods[i+1:] {
-			p := comparePair(a, b, cmp.traces[a], cmp.traces[b], ber.Step, tau)
-			p.Cause = pairCause(st, p, freqDep)
-			cmp.Pairs = append(cmp.Pairs, p)
-			cmp.MaxDiffPU = math.Max(cmp.MaxDiffPU, p.MaxDiffPU)
-		}
+	cmp := &energiseComparison{Methods: a.Methods, Skipped: a.Skipped, TimeStepUs: a.Step * 1e6,
+		Peaks: a.Peaks, traces: a.Traces, MaxDiffPU: a.MaxDiff}
+	for _, q := range a.Pairs {
+		p := energisePair{A: q.A, B: q.B, MaxDiffPU: q.MaxDiff, TMs: q.T * 1e3, RMSDiffPU: q.RMSDiff,
+			FrontWindowMs: q.FrontWindow * 1e3, FrontMaxDiffPU: q.FrontMaxDiff, AwayMaxDiffPU: q.AwayMaxDiff,
+			AwayTMs: q.AwayT * 1e3, AwayRMSDiffPU: q.AwayRMS, AwayRMSEarlyPU: q.AwayRMSEarly, AwayRMSLatePU: q.AwayRMSLate,
+			AtWavefronts: q.AtWavefronts}
+		p.Cause = pairCause(st, p, a.FrequencyDependent)
+		cmp.Pairs = append(cmp.Pairs, p)
 	}
 	return cmp, nil
-}
-
-// awayFromFrontsPU: an rms difference away from the wavefronts below this is
-// agreement to screening precision (common practice, no source: 0.01 pu is below
-// the precision a switching overvoltage is read to).
-const awayFromFrontsPU = 0.01
-
-// comparePair measures the difference of two receiving-end waveforms (step dt):
-// near the arrivals of the wavefront at the open end, the odd multiples of the
-// travel time tau (within ±max(10·dt, tau/20), where the methods shape the front
-// their own way), and away from them.
-func comparePair(a, b string, va, vb []float64, dt, tau float64) energisePair {
-	p := energisePair{A: a, B: b}
-	m := min(len(va), len(vb))
-	w := math.Max(10*dt, tau/20)
-	p.FrontWindowMs = w * 1e3
-	var sum, away, early, late float64
-	var nAway, nEarly, nLate int
-	for k := range m {
-		t := float64(k) * dt
-		d := math.Abs(va[k] - vb[k])
-		sum += d * d
-		if d > p.MaxDiffPU {
-			p.MaxDiffPU, p.TMs = d, t*1e3
-		}
-		// nearest odd multiple of tau
-		j := 2*math.Floor(t/(2*tau)) + 1
-		if math.Abs(t-j*tau) < w || math.Abs(t-(j-2)*tau) < w || math.Abs(t-(j+2)*tau) < w {
-			p.FrontMaxDiffPU = math.Max(p.FrontMaxDiffPU, d)
-			continue
-		}
-		away += d * d
-		nAway++
-		if d > p.AwayMaxDiffPU {
-			p.AwayMaxDiffPU, p.AwayTMs = d, t*1e3
-		}
-		if k < m/2 {
-			early += d * d
-			nEarly++
-		} else {
-			late += d * d
-			nLate++
-		}
-	}
-	rms := func(s float64, n int) float64 {
-		if n == 0 {
-			return 0
-		}
-		return math.Sqrt(s / float64(n))
-	}
-	p.RMSDiffPU = rms(sum, m)
-	p.AwayRMSDiffPU, p.AwayRMSEarlyPU, p.AwayRMSLatePU = rms(away, nAway), rms(early, nEarly), rms(late, nLate)
-	p.AtWavefronts = p.AwayRMSDiffPU < awayFromFrontsPU
-	return p
-}
-
-// lineFrequencyDependent reports whether any section's series resistance or
-// inductance at ten times the system frequency differs from its value at the system
-// frequency by more than 1 % (a line from geometry: skin effect and earth return).
-func lineFrequencyDependent(st *study.Study) bool {
-	w := 2 * math.Pi * st.Frequency
-	for _, l := range st.Network.Line {
-		z1, _ := l.At(complex(0, w))
-		z10, _ := l.At(complex(0, 10*w))
-		r1, r10 := real(z1), real(z10)
-		l1, l10 := imag(z1)/w, imag(z10)/(10*w)
-		if math.Abs(r10-r1) > 0.01*math.Abs(r1) || math.Abs(l10-l1) > 0.01*math.Abs(l1) {
-			return true
-		}
-	}
-	return false
 }
 
 // pairCause explains the difference of two methods by its cause.

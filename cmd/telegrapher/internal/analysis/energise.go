@@ -4,7 +4,12 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"math/cmplx"
+	"sort"
 	"strings"
+
+	"github.com/mjibson/go-dsp/fft"
+	"github.com/mjibson/go-dsp/window"
 
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 	"github.com/telegrapher/telegrapher/freqscan"
@@ -204,4 +209,295 @@ func EnergiseWaveform(st *study.Study, method string, e waves.Energisation) (*wa
 		return nil, nil, "", settingInput(st.File, CmdEnergise, err, waves.ErrSettings)
 	}
 	return w, d, limits, nil
+}
+
+// EnergiseResult is the energisation of the open-ended line by one method.
+type EnergiseResult struct {
+	Method      string             // "lattice", "bergeron" or "laplace"
+	Settings    waves.Energisation // as run (duration chosen when not given)
+	DurationHow string             // "given", or "default: " and the bound that decided
+	Wave        *waves.Waveform    // pu of the peak phase-to-earth EMF
+	Diagram     *waves.LatticeDiagram
+	Limits      string  // the method's limits in words
+	TravelTime  float64 // s, of the whole line at the system frequency
+	// Resonances are the gain peaks of |Vr/E| of the energised network (far end
+	// open) up to the lesser of 10 kHz and the transient's Nyquist frequency.
+	Resonances []freqscan.Peak
+	Spectrum   Spectrum // of the receiving-end transient
+}
+
+// Spectrum holds the dominant frequencies of a transient.
+type Spectrum struct {
+	Resolution float64 // Hz, 1 / duration
+	Window     string
+	Dominant   []Dominant // by frequency
+}
+
+// Dominant is one dominant frequency of a transient.
+type Dominant struct {
+	F           float64 // Hz
+	Relative    float64 // amplitude relative to the largest spectral peak
+	NearestScan float64 // Hz, the nearest of the scan's resonances (0: none)
+}
+
+// Energise computes the energisation of st by method ("" = the study's [energise]
+// method, default laplace): the waveforms, their peaks' inputs, the resonances of
+// the energised network and the transient's dominant frequencies.
+func Energise(st *study.Study, method string) (*EnergiseResult, error) {
+	if method == "" {
+		method = st.Energise.Method
+	}
+	if method == "" {
+		method = "laplace"
+	}
+	e, how := Energisation(st)
+	w, d, limits, err := EnergiseWaveform(st, method, e)
+	if err != nil {
+		return nil, err
+	}
+	r := &EnergiseResult{Method: method, Settings: e, DurationHow: how, Wave: w, Diagram: d, Limits: limits, TravelTime: TravelTime(st)}
+	r.Resonances = scanResonances(st, w.Step)
+	r.Spectrum = transientSpectrum(w.Receiving, w.Step, r.Resonances)
+	return r, nil
+}
+
+// scanResonances returns the resonance peaks of |Vr/E| of the energised network on a
+// grid from 1 Hz to the lesser of 10 kHz and the transient's Nyquist frequency, by the
+// scan's own peak finder (freqscan.Peaks).
+func scanResonances(st *study.Study, dt float64) []freqscan.Peak {
+	net := st.Network.Energising()
+	top := math.Min(10e3, 0.5/dt)
+	const n = 6000
+	freqs := make([]float64, n)
+	for i := range freqs {
+		freqs[i] = 1 + (top-1)*float64(i)/(n-1)
+	}
+	pts := freqscan.Scan(nil, net, freqs)
+	return freqscan.Peaks(net, pts)
+}
+
+// transientSpectrum finds the dominant frequencies of the transient v (step dt): the
+// deviation from its mean, Hann-windowed (go-dsp window.Hann), zero-padded to eight
+// times its length and transformed (go-dsp fft.FFTReal); the local maxima of the
+// magnitude above 10 % of the largest (above 2/duration), refined by a parabola through three bins,
+// the four largest by frequency, each with the nearest of the resonances res.
+func transientSpectrum(v []float64, dt float64, res []freqscan.Peak) Spectrum {
+	sp := Spectrum{Window: "Hann (go-dsp), zero-padded x8"}
+	n := len(v)
+	if n < 8 {
+		return sp
+	}
+	duration := float64(n-1) * dt
+	sp.Resolution = 1 / duration
+	// Long waveforms: decimate to at most 65,536 samples (the spectrum of interest
+	// lies far below the Nyquist frequency of the decimated record).
+	step := 1
+	for n/step > 65536 {
+		step *= 2
+	}
+	m := n / step
+	x := make([]float64, m)
+	var mean float64
+	for i := range x {
+		x[i] = v[i*step]
+		mean += x[i]
+	}
+	mean /= float64(m)
+	for i := range x {
+		x[i] -= mean
+	}
+	window.Apply(x, window.Hann)
+	size := 1
+	for size < 8*m {
+		size *= 2
+	}
+	padded := make([]float64, size)
+	copy(padded, x)
+	spec := fft.FFTReal(padded)
+	mag := make([]float64, size/2)
+	for i := range mag {
+		mag[i] = cmplx.Abs(spec[i])
+	}
+	df := 1 / (float64(size) * dt * float64(step))
+	// Below two resolutions (2/duration) a component is not told from the mean and
+	// the window: those are left out.
+	lowest := max(int(math.Ceil(2*sp.Resolution/df)), 1)
+	type cand struct{ f, a float64 }
+	var cs []cand
+	var top float64
+	for i := lowest; i < len(mag)-1; i++ {
+		if mag[i] > mag[i-1] && mag[i] >= mag[i+1] {
+			a, b, c := mag[i-1], mag[i], mag[i+1]
+			off := 0.0
+			if den := a - 2*b + c; den != 0 {
+				off = 0.5 * (a - c) / den
+			}
+			cs = append(cs, cand{(float64(i) + off) * df, b})
+			top = math.Max(top, b)
+		}
+	}
+	if top == 0 {
+		return sp
+	}
+	kept := cs[:0]
+	for _, c := range cs {
+		if c.a >= 0.1*top {
+			kept = append(kept, cand{c.f, c.a / top})
+		}
+	}
+	cs = kept
+	sort.Slice(cs, func(i, j int) bool { return cs[i].a > cs[j].a })
+	if len(cs) > 4 {
+		cs = cs[:4]
+	}
+	sort.Slice(cs, func(i, j int) bool { return cs[i].f < cs[j].f })
+	for _, c := range cs {
+		d := Dominant{F: c.f, Relative: c.a}
+		best := math.Inf(1)
+		for _, r := range res {
+			if dd := math.Abs(r.F - c.f); dd < best {
+				best, d.NearestScan = dd, r.F
+			}
+		}
+		sp.Dominant = append(sp.Dominant, d)
+	}
+	return sp
+}
+
+// Comparison is the energisation by every method the study allows on one time step.
+type Comparison struct {
+	Methods []string // in the order lattice, bergeron, laplace
+	Skipped []string // "method: why" for the methods that cannot treat the study
+	Step    float64  // s, Bergeron's (or the study's time_step_us)
+	Traces  map[string][]float64
+	Peaks   map[string]float64 // signed receiving-end peaks, pu
+	Pairs   []Pair
+	MaxDiff float64 // pu, the largest of the pairs'
+	// FrequencyDependent is set when the line's constants vary with frequency
+	// (LineFrequencyDependent), a cause of the differences.
+	FrequencyDependent bool
+}
+
+// Pair is the difference of the receiving-end voltages of two methods: the largest
+// and rms over the run, the largest near the wavefront arrivals, the rms away from
+// them (over the run and its first and second half). Voltages in pu, times in s.
+type Pair struct {
+	A, B                               string
+	MaxDiff, T, RMSDiff                float64
+	FrontWindow                        float64 // ± this about each arrival counts as near a wavefront
+	FrontMaxDiff, AwayMaxDiff, AwayT   float64
+	AwayRMS, AwayRMSEarly, AwayRMSLate float64
+	AtWavefronts                       bool // the difference concentrates at the wavefronts
+}
+
+// CompareEnergise runs every method the study allows on the Bergeron time step (or
+// the study's time_step_us) and measures the receiving-end differences.
+func CompareEnergise(st *study.Study) (*Comparison, error) {
+	e, _ := Energisation(st)
+	cmp := &Comparison{Peaks: map[string]float64{}, Traces: map[string][]float64{}}
+	ber, _, _, err := EnergiseWaveform(st, "bergeron", e)
+	if err != nil {
+		return nil, err
+	}
+	e.TimeStep = ber.Step
+	cmp.Step = ber.Step
+	for _, m := range []string{"lattice", "bergeron", "laplace"} {
+		w := ber
+		if m != "bergeron" {
+			var err error
+			w, _, _, err = EnergiseWaveform(st, m, e)
+			var me *MethodError
+			if errors.As(err, &me) {
+				cmp.Skipped = append(cmp.Skipped, m+": "+err.Error())
+				continue
+			}
+			if err != nil {
+				return nil, err
+			}
+		}
+		cmp.Methods = append(cmp.Methods, m)
+		cmp.Traces[m] = w.Receiving
+		cmp.Peaks[m], _ = waves.Peak(w.Receiving)
+	}
+	tau := TravelTime(st)
+	cmp.FrequencyDependent = LineFrequencyDependent(st)
+	for i, a := range cmp.Methods {
+		for _, b := range cmp.Methods[i+1:] {
+			p := comparePair(a, b, cmp.Traces[a], cmp.Traces[b], ber.Step, tau)
+			cmp.Pairs = append(cmp.Pairs, p)
+			cmp.MaxDiff = math.Max(cmp.MaxDiff, p.MaxDiff)
+		}
+	}
+	return cmp, nil
+}
+
+// AwayFromFrontsPU: an rms difference away from the wavefronts below this is
+// agreement to screening precision (common practice, no source: 0.01 pu is below
+// the precision a switching overvoltage is read to).
+const AwayFromFrontsPU = 0.01
+
+// comparePair measures the difference of two receiving-end waveforms (step dt):
+// near the arrivals of the wavefront at the open end, the odd multiples of the
+// travel time tau (within ±max(10·dt, tau/20), where the methods shape the front
+// their own way), and away from them.
+func comparePair(a, b string, va, vb []float64, dt, tau float64) Pair {
+	p := Pair{A: a, B: b}
+	m := min(len(va), len(vb))
+	w := math.Max(10*dt, tau/20)
+	p.FrontWindow = w
+	var sum, away, early, late float64
+	var nAway, nEarly, nLate int
+	for k := range m {
+		t := float64(k) * dt
+		d := math.Abs(va[k] - vb[k])
+		sum += d * d
+		if d > p.MaxDiff {
+			p.MaxDiff, p.T = d, t
+		}
+		// nearest odd multiple of tau
+		j := 2*math.Floor(t/(2*tau)) + 1
+		if math.Abs(t-j*tau) < w || math.Abs(t-(j-2)*tau) < w || math.Abs(t-(j+2)*tau) < w {
+			p.FrontMaxDiff = math.Max(p.FrontMaxDiff, d)
+			continue
+		}
+		away += d * d
+		nAway++
+		if d > p.AwayMaxDiff {
+			p.AwayMaxDiff, p.AwayT = d, t
+		}
+		if k < m/2 {
+			early += d * d
+			nEarly++
+		} else {
+			late += d * d
+			nLate++
+		}
+	}
+	rms := func(s float64, n int) float64 {
+		if n == 0 {
+			return 0
+		}
+		return math.Sqrt(s / float64(n))
+	}
+	p.RMSDiff = rms(sum, m)
+	p.AwayRMS, p.AwayRMSEarly, p.AwayRMSLate = rms(away, nAway), rms(early, nEarly), rms(late, nLate)
+	p.AtWavefronts = p.AwayRMS < AwayFromFrontsPU
+	return p
+}
+
+// LineFrequencyDependent reports whether any section's series resistance or
+// inductance at ten times the system frequency differs from its value at the system
+// frequency by more than 1 % (a line from geometry: skin effect and earth return).
+func LineFrequencyDependent(st *study.Study) bool {
+	w := 2 * math.Pi * st.Frequency
+	for _, l := range st.Network.Line {
+		z1, _ := l.At(complex(0, w))
+		z10, _ := l.At(complex(0, 10*w))
+		r1, r10 := real(z1), real(z10)
+		l1, l10 := imag(z1)/w, imag(z10)/(10*w)
+		if math.Abs(r10-r1) > 0.01*math.Abs(r1) || math.Abs(l10-l1) > 0.01*math.Abs(l1) {
+			return true
+		}
+	}
+	return false
 }
