@@ -4,9 +4,10 @@ package main
 //
 //	parseBatch(file, r)        the rows, validated (batch_rows.go): errors read
 //	                           `LINES.csv: row N: column: problem`, exit 2
-//	screenLine(file, line)     one row as a study (through the study loader) screened by
-//	                           computeScan and computeEnergise: SIL, first resonance,
-//	                           worst watched harmonic, energisation peak, flags
+//	screenLine(ctx, file, line) one row as a study (through the study loader) screened
+//	                           by analysis.ScreenLine: SIL, first resonance, worst
+//	                           watched harmonic, energisation peak, severity; the flags
+//	                           in words
 //	screenInventory(...)       every row, in parallel over the cores (batch_run.go)
 //	batchTable(results)        the summary table, worst first
 //
@@ -20,20 +21,19 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"math/cmplx"
 	"os"
 	"sort"
 	"strings"
 	"time"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/freqscan"
 )
 
-// openEndRiseScreenPU is the no-load receiving-end voltage (over the sending end) above
-// which a line is flagged: 5 % is the usual allowance for the open-end rise of an
-// uncompensated line (common practice, no source).
-const openEndRiseScreenPU = 1.05
+// openEndRiseScreenPU is the open-end rise above which a line is flagged
+// (analysis.OpenEndRiseScreenPU).
+const openEndRiseScreenPU = analysis.OpenEndRiseScreenPU
 
 func init() {
 	register(&command{
@@ -137,63 +137,35 @@ type batchResult struct {
 	Severity       float64
 }
 
-// screenLine screens one row.
+// screenLine screens one row: its study (through the study loader) screened by
+// analysis.ScreenLine, in display units with its flags in words.
 func screenLine(ctx context.Context, file string, bl batchLine) (batchResult, error) {
 	st, err := bl.study(file)
 	if err != nil {
 		return batchResult{}, err
 	}
-	r := batchResult{Row: bl.Row, Name: bl.Name}
-	w := 2 * math.Pi * st.Frequency
-	for _, l := range st.Line {
-		r.SILMW += l.SIL(st.Voltage, w) / 1e6 / float64(len(st.Line))
-	}
-	// Open-end rise with the line-connected reactors in place (they are switched with
-	// the line): Vr/Vs = 1/(A + B·Yr).
-	s := complex(0, w)
-	_, _, yr, _ := st.Network.Energising().Admittances(s)
-	r.OpenEndRisePU = cmplx.Abs(st.Line.Exact(s).VoltageRatio(yr))
-
-	sc, err := computeScan(ctx, st)
+	a, err := analysis.ScreenLine(ctx, st)
 	if err != nil {
 		return batchResult{}, err
 	}
-	r.GainLimit = sc.GainLimit
-	if p := firstResonance(sc.Peaks); p != nil {
-		r.FirstHz, r.FirstHarmonic, r.FirstGain = p.FHz, p.Harmonic, p.Gain
+	f0 := st.Frequency
+	r := batchResult{Row: bl.Row, Name: bl.Name, SILMW: a.SIL / 1e6, OpenEndRisePU: a.OpenEndRise,
+		GainLimit: a.Screening.GainLimit, EnergisePeakPU: a.EnergisePeak, EnergiseTMs: a.EnergiseT * 1e3, Severity: a.Severity}
+	if p := a.First; a.HasFirst {
+		r.FirstHz, r.FirstHarmonic, r.FirstGain = p.F, p.F/f0, p.Gain
 		if p.Unbounded {
 			r.FirstGain = math.Inf(1)
 		}
 	}
-	for _, h := range sc.Harmonics {
-		if h.Watched && (r.WorstOrder == 0 || h.BandGain > r.WorstBandGain) {
-			r.WorstOrder, r.WorstBandGain, r.WorstSequence = h.Order, h.BandGain, h.Sequence
-		}
+	if h := a.Worst; a.HasWorst {
+		r.WorstOrder, r.WorstBandGain, r.WorstSequence = h.Order, h.BandGain, string(h.Sequence)
 	}
-	en, err := computeEnergise(st, "")
-	if err != nil {
-		return batchResult{}, err
-	}
-	r.EnergisePeakPU, r.EnergiseTMs = en.PeakPU, en.TPeakMs
-
-	ratio := func(v, limit float64) float64 {
-		if math.IsInf(v, 1) {
-			return math.MaxFloat64
-		}
-		return v / limit
-	}
-	// the energisation peak less the method's stated accuracy at wavefronts, as the
-	// flag compares it (energiseOver)
-	r.Severity = math.Max(ratio(r.OpenEndRisePU, openEndRiseScreenPU), ratio(math.Abs(r.EnergisePeakPU)-en.FrontOvershootPU, energisePeakScreenPU))
-	for _, h := range sc.Harmonics {
+	for _, h := range a.Screening.Rows {
 		if h.Watched && h.OverLimit {
-			r.Flags = append(r.Flags, fmt.Sprintf("h%d%s gain %s > %g", h.Order, sequenceMark(h.Sequence), fmtGain(h.BandGain), sc.GainLimit))
-		}
-		if h.Watched && sc.GainLimit > 0 {
-			r.Severity = math.Max(r.Severity, ratio(h.BandGain, sc.GainLimit))
+			r.Flags = append(r.Flags, fmt.Sprintf("h%d%s gain %s > %g", h.Order, sequenceMark(string(h.Sequence)), fmtGain(h.BandGain), a.Screening.GainLimit))
 		}
 	}
-	if over, _ := energiseOver(en, energiseLimit()); over {
+	if a.EnergiseOver {
 		r.Flags = append(r.Flags, fmt.Sprintf("energisation %.2f pu > %.1f", math.Abs(r.EnergisePeakPU), energisePeakScreenPU))
 	}
 	if r.OpenEndRisePU > openEndRiseScreenPU {

@@ -536,10 +536,9 @@ func (rr *reportRun) constantsSection() (report.Section, error) {
 }
 
 // energisePeakScreenPU is the open-end energisation peak above which the report flags
-// the result: about 2 pu is the usual ceiling aimed at for EHV line energisation
-// (common practice, no source); a study with switching.siwl_kv gets the real margin in
-// the switching section.
-const energisePeakScreenPU = 2.0
+// the result (analysis.EnergisePeakScreenPU); a study with switching.siwl_kv gets the
+// real margin in the switching section.
+const energisePeakScreenPU = analysis.EnergisePeakScreenPU
 
 // harmonicAt names a harmonic order as the report reads it: "the 5th harmonic" for a
 // whole order, "harmonic order 4.4" otherwise (a fractional order is not an ordinal).
