@@ -90,7 +90,7 @@ func remedyApply(t *testing.T, text string, ch remedyChanges) string {
 		at string
 	}{{ch.ReactorMvarSending, "sending"}, {ch.ReactorMvarReceiving, "receiving"}} {
 		if r.q != nil {
-			text += fmt.Sprintf("\n[[shunt]]\nname = \"added by hand\"\nat = %q\nconnection = \"line\"\nmvar = %v\nq_factor = %d\n", r.at, *r.q, remedyReactorQ)
+			text += fmt.Sprintf("\n[[shunt]]\nname = \"added by hand\"\nat = %q\nconnection = \"line\"\nmvar = %v\nq_factor = %d\n", r.at, *r.q, analysis.RemedyReactorQ)
 		}
 	}
 	return text
@@ -206,15 +206,15 @@ func TestRemedyMovesFifthHarmonicResonance(t *testing.T) {
 func TestRemedyControlledClosingLowersU2(t *testing.T) {
 	t.Parallel()
 	st := remedyParse(t, "remedy_switching.toml", remedyReadFile(t, "remedy_switching.toml"))
-	rs, err := newRemedySearch(context.Background(), st, nil)
+	rs, err := analysis.NewRemedySearch(context.Background(), st, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	random, _, err := rs.remedySwitching(st, false)
+	random, _, err := rs.U2(st, false)
 	if err != nil {
 		t.Fatal(err)
 	}
-	controlled, _, err := rs.remedySwitching(st, true)
+	controlled, _, err := rs.U2(st, true)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -361,14 +361,14 @@ func TestRemedyAppliedByHandMeetsTargets(t *testing.T) {
 	want := 0.0
 	for _, q := range []*float64{res.Changes.ReactorMvarSending, res.Changes.ReactorMvarReceiving} {
 		if q != nil {
-			want += remedyCostReactorBay + remedyCostPerMvar**q
+			want += analysis.RemedyCostReactorBay + analysis.RemedyCostPerMvar**q
 		}
 	}
 	if res.Changes.PreinsertionOhm != nil {
-		want += remedyCostPreinsertion
+		want += analysis.RemedyCostPreinsertion
 	}
 	if res.Changes.ArrestersKV != nil {
-		want += remedyCostArresters
+		want += analysis.RemedyCostArresters
 	}
 	if math.Abs(res.Cost-want) > 1e-9 {
 		t.Errorf("cost %g, the documented weights give %g", res.Cost, want)
@@ -420,13 +420,13 @@ func TestRemedyCandidateMatchesEditedStudy(t *testing.T) {
 	t.Parallel()
 	text := remedyReadFile(t, "remedy_switching.toml")
 	st := remedyParse(t, "remedy_switching.toml", text)
-	rs, err := newRemedySearch(context.Background(), st, nil)
+	rs, err := analysis.NewRemedySearch(context.Background(), st, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	c := remedyCandidate{ReactorSending: 40e6, ReactorReceiving: 60e6, Preinsertion: 300, ArresterV: 336e3}
-	cst := remedyStudy(st, c)
-	u2, margin, err := rs.remedySwitching(cst, false)
+	c := analysis.RemedyCandidate{ReactorSending: 40e6, ReactorReceiving: 60e6, Preinsertion: 300, ArresterV: 336e3}
+	cst := analysis.RemedyStudy(st, c)
+	u2, margin, err := rs.U2(cst, false)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -434,7 +434,7 @@ func TestRemedyCandidateMatchesEditedStudy(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	gain, _, err := analysis.WatchedGain(context.Background(), cst, rs.freqs)
+	gain, _, err := analysis.WatchedGain(context.Background(), cst, rs.Freqs())
 	if err != nil {
 		t.Fatal(err)
 	}
