@@ -5,7 +5,8 @@ package main
 // frequency_hz), and the ABCD of the exact, nominal pi, nominal T and short-line models
 // with each lumped model's error against the exact one.
 //
-//   computeConstants(st, atHz) (constantsResult, error): everything above; atHz = 0
+//   computeConstants(st, atHz) (constantsResult, error): analysis.Constants in display
+//   units, everything above; atHz = 0
 //     means frequency_hz. The report command reuses it.
 //   printConstants(w, st, res): the readable table.
 //

@@ -3,20 +3,22 @@ package main
 // The energise command: the energisation transient of the open-ended line, all poles
 // closed together (positive-sequence equivalent).
 //
-//	computeEnergise(st, method) (energiseResult, error)  the waveforms by one method
+//	computeEnergise(st, method) (energiseResult, error)  analysis.Energise in display
+//	                            units: the waveforms by one method
 //	                            (lattice, bergeron or laplace; "" = the study's), the
 //	                            peaks, the method's notes and limits, the dominant
 //	                            frequencies of the transient beside the scan's
 //	                            resonances of the same network, and the lattice
 //	                            diagram when the method is lattice
-//	compareEnergise(st)         every method the study allows on one time step, and
-//	                            their largest differences
+//	compareEnergise(st)         analysis.CompareEnergise: every method the study
+//	                            allows on one time step, and their largest differences,
+//	                            with their causes in words
 //	energiseTable(res)          the waveforms as a report.Table (CSV)
 //	energisePlotData(res, ...)  the input of report.EnergisePlot; report.LatticePlot
 //	                            draws res.diagram
 //
 // A method that cannot treat the study (the lattice diagram with an inductive source
-// or a shunt) is an input error naming energise.method (exit 2).
+// or a shunt) is an *analysis.MethodError naming energise.method (exit 2).
 
 import (
 	"context"

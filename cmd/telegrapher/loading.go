@@ -7,7 +7,7 @@ package main
 //
 // For reuse (the report command):
 //
-//	computeLoading(st, targetPU) (loadingResult, error)  every number, no output
+//	computeLoading(st, targetPU) (loadingResult, error)  analysis.Loading in display units
 //	loadingPlots(r) []*plot.Plot                          the three panels, built by
 //	                                                      report.LoadingProfilePlot,
 //	                                                      report.LoadingReactivePlot,

@@ -2,10 +2,11 @@ package main
 
 // The remedy command: the cheapest change of the study's levers that meets every
 // target (contract: "Remedies"; the search and the cost weights are at the top of
-// remedy_search.go).
+// internal/analysis/remedy_search.go).
 //
-//	computeRemedy(st) (remedyResult, error)   the search: feasible, changes, before and
-//	                                          after, binding target, cost, margins left;
+//	computeRemedyProgress(ctx, st, status)    analysis.Remedy shaped for display:
+//	                                          feasible, changes, before and after,
+//	                                          binding target, cost, margins left;
 //	                                          remedyResult is also the --json document
 //	remedyPlots(r) ([]*plot.Plot, error)      the trade-off plots (report.RemedyResonancePlot:
 //	                                          first resonance against added reactor with the
@@ -14,7 +15,7 @@ package main
 //	                                          target; report.RemedyResistorPlot: u2 against
 //	                                          the pre-insertion resistor)
 //	printRemedy(w, r)                         the text summary
-//	remedyReportPart(ctx, st, status)             the report's "remedies" section (with the
+//	remedyReportPart(ctx, st, status)         the report's "remedies" section (with the
 //	                                          plots for the report to write), ok false
 //	                                          when the study has no [targets]
 //

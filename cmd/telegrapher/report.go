@@ -11,8 +11,10 @@ package main
 //	                                place when complete (batch uses it too)
 //
 // Each part calls the compute function and plot builders of its command (computeScan,
-// computeEnergise, computeLoading, computeSwitching, report.*Plot) so the report shows
-// exactly what the commands show. A part that cannot run for the study (for example
+// computeEnergise, computeLoading, computeSwitchingProgress, report.*Plot: the analysis
+// package's results shaped for display) so the report shows exactly what the commands
+// show. A cancelled context stops the run after the part under way and discards the
+// folder. A part that cannot run for the study (for example
 // switching without zero-sequence data) becomes a section saying why; any other failure
 // fails the whole run, and then nothing is left in place (see outputFolder).
 

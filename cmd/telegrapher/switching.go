@@ -2,9 +2,8 @@ package main
 
 // The switching command: three-phase statistical energisation and reclosing.
 //
-//	switchingApplicable(st)        nil, or the input error saying why the study cannot
-//	                               run (no zero-sequence data)
-//	computeSwitching(st)           every shot, the statistics (IEC 60071-2 phase-peak and
+//	computeSwitching(st)           analysis.Switching shaped for display: every shot,
+//	                               the statistics (IEC 60071-2 phase-peak and
 //	                               case-peak, IEC 60071-1 base and kV), the margin to
 //	                               switching.siwl_kv, with and without arresters when the
 //	                               study has them, and the worst shot's three-phase
