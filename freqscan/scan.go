@@ -1,6 +1,7 @@
 package freqscan
 
 import (
+	"context"
 	"math"
 	"math/cmplx"
 	"runtime"
@@ -61,6 +62,25 @@ func Scan(dst []Point, n Network, freqs []float64) []Point {
 	}
 	wg.Wait()
 	return dst
+}
+
+// ScanChunk is the number of frequencies ScanContext evaluates between two checks of
+// its context.
+const ScanChunk = 1 << 15
+
+// ScanContext is Scan that checks ctx between chunks of ScanChunk frequencies, so a
+// scan of many points stops promptly when ctx ends; it then returns ctx's error. The
+// points are those of Scan.
+func ScanContext(ctx context.Context, dst []Point, n Network, freqs []float64) ([]Point, error) {
+	dst = grow(dst, len(freqs))
+	for lo := 0; lo < len(freqs); lo += ScanChunk {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		hi := min(lo+ScanChunk, len(freqs))
+		Scan(dst[lo:hi], n, freqs[lo:hi])
+	}
+	return dst, nil
 }
 
 func scanRange(dst []Point, n Network, freqs []float64) {

@@ -145,13 +145,13 @@ func chooseStep(pieces []piece, e Energisation) (stepChoice, error) {
 		if c.dt > c.tauMin {
 			c.dt = c.tauMin
 			if n := e.Duration / c.dt; n > MaxSamples {
-				return c, fmt.Errorf("%w: bergeron: a run of %.4g ms needs %.3g samples at the longest step the method allows (the shortest line piece's travel time, %.4g µs), more than %d: shorten duration_ms, or use the laplace method",
-					ErrSettings, e.Duration*1e3, n, c.tauMin*1e6, MaxSamples)
+				return c, settingErr("Duration", ErrSettings, "bergeron: a run of %.4g ms needs %.3g samples at the longest step the method allows (the shortest line piece's travel time, %.4g µs), more than %d: shorten duration_ms, or use the laplace method",
+					e.Duration*1e3, n, c.tauMin*1e6, MaxSamples)
 			}
 		}
 	}
 	if c.dt > c.tauMin {
-		return c, fmt.Errorf("%w: bergeron: time step %.4g µs exceeds the shortest travel time %.4g µs", ErrSettings, c.dt*1e6, c.tauMin*1e6)
+		return c, settingErr("TimeStep", ErrSettings, "bergeron: time step %.4g µs exceeds the shortest travel time %.4g µs", c.dt*1e6, c.tauMin*1e6)
 	}
 	for _, p := range pieces {
 		k := p.tau / c.dt

@@ -1,6 +1,7 @@
 package waves
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -137,33 +138,33 @@ func DrawShots(s SwitchingSettings) []ShotSpec {
 var ErrSwitching = errors.New("switching")
 
 func (s SwitchingSettings) check() error {
-	bad := func(f string, a ...any) error {
-		return fmt.Errorf("%w: %s", ErrSwitching, fmt.Sprintf(f, a...))
+	bad := func(setting, f string, a ...any) error {
+		return settingErr(setting, ErrSwitching, f, a...)
 	}
 	fin := func(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 	switch {
 	case s.Shots < 1 || s.Shots > MaxShots:
-		return bad("shots must be 1..%d, got %d", MaxShots, s.Shots)
+		return bad("Shots", "shots must be 1..%d, got %d", MaxShots, s.Shots)
 	case !fin(s.CloseDeg):
-		return bad("closing angle must be finite")
+		return bad("CloseDeg", "closing angle must be finite")
 	case !(s.PoleSigma >= 0) || !fin(s.PoleSigma) || s.PoleSigma > 0.02:
-		return bad("pole scatter must be 0..20 ms, got %g s", s.PoleSigma)
+		return bad("PoleSigma", "pole scatter must be 0..20 ms, got %g s", s.PoleSigma)
 	case !(s.Preinsertion >= 0) || !fin(s.Preinsertion):
-		return bad("pre-insertion resistance must be >= 0, got %g ohm", s.Preinsertion)
+		return bad("Preinsertion", "pre-insertion resistance must be >= 0, got %g ohm", s.Preinsertion)
 	case s.Preinsertion > 0 && (!(s.InsertTime > 0) || !fin(s.InsertTime) || s.InsertTime > 0.1):
-		return bad("pre-insertion time must be > 0 and at most 100 ms, got %g s", s.InsertTime)
+		return bad("InsertTime", "pre-insertion time must be > 0 and at most 100 ms, got %g s", s.InsertTime)
 	case !(s.Duration > 0) || !fin(s.Duration):
-		return bad("duration must be > 0, got %g s", s.Duration)
+		return bad("Duration", "duration must be > 0, got %g s", s.Duration)
 	case !(s.TimeStep >= 0) || !fin(s.TimeStep):
-		return bad("time step must be >= 0, got %g s", s.TimeStep)
+		return bad("TimeStep", "time step must be >= 0, got %g s", s.TimeStep)
 	case !(s.ControlledSigma >= 0) || !fin(s.ControlledSigma) || s.ControlledSigma > 0.02:
-		return bad("controlled-closing scatter must be 0..20 ms, got %g s", s.ControlledSigma)
+		return bad("ControlledSigma", "controlled-closing scatter must be 0..20 ms, got %g s", s.ControlledSigma)
 	case !(s.DeadTime >= 0) || !fin(s.DeadTime) || s.DeadTime > MaxDeadTime:
-		return bad("dead time must be 0..%g s, got %g s", MaxDeadTime, s.DeadTime)
+		return bad("DeadTime", "dead time must be 0..%g s, got %g s", MaxDeadTime, s.DeadTime)
 	}
 	for k, v := range s.TrappedPU {
 		if !fin(v) || math.Abs(v) > 10 {
-			return bad("trapped charge of phase %c must be within ±10 pu, got %g", 'a'+k, v)
+			return bad("TrappedPU", "trapped charge of phase %c must be within ±10 pu, got %g", 'a'+k, v)
 		}
 	}
 	return nil
@@ -277,11 +278,11 @@ func NewSwitchingSimulator(net ThreePhase, s SwitchingSettings) (*SwitchingSimul
 		dt = math.Min(20e-6, tmin/10)
 	}
 	if dt > tmin {
-		return nil, fmt.Errorf("%w: time step %.4g µs exceeds the shortest modal travel time %.4g µs", ErrSwitching, dt*1e6, tmin*1e6)
+		return nil, settingErr("TimeStep", ErrSwitching, "time step %.4g µs exceeds the shortest modal travel time %.4g µs", dt*1e6, tmin*1e6)
 	}
 	span := 6*s.PoleSigma + s.InsertTime*b2f(s.Preinsertion > 0) + s.Duration
 	if span/dt > MaxSamples {
-		return nil, fmt.Errorf("%w: duration / time step = %.4g exceeds %d samples", ErrSwitching, span/dt, MaxSamples)
+		return nil, settingErr("TimeStep", ErrSwitching, "duration / time step = %.4g exceeds %d samples", span/dt, MaxSamples)
 	}
 	sim := &SwitchingSimulator{net: net, set: s, dt: dt}
 	sim.ideal = net.SourceR == 0 && net.SourceL == 0
@@ -301,7 +302,7 @@ func NewSwitchingSimulator(net ThreePhase, s SwitchingSettings) (*SwitchingSimul
 	sim.neutral = [2]int{-1, -1}
 	for e := 0; e < 2; e++ {
 		if net.NeutralL[e] < 0 || math.IsNaN(net.NeutralL[e]) || math.IsInf(net.NeutralL[e], 0) {
-			return nil, fmt.Errorf("%w: neutral reactor inductance must be >= 0", ErrSwitching)
+			return nil, settingErr("NeutralL", ErrSwitching, "neutral reactor inductance must be >= 0")
 		}
 		if net.NeutralL[e] == 0 {
 			continue
@@ -311,7 +312,7 @@ func NewSwitchingSimulator(net ThreePhase, s SwitchingSettings) (*SwitchingSimul
 			has = has || (sh.OnLine && sh.L > 0 && int(sh.End) == e)
 		}
 		if !has {
-			return nil, fmt.Errorf("%w: a neutral reactor at the %s end needs a line-connected reactor there", ErrSwitching, freqscan.End(e))
+			return nil, settingErr([2]string{"NeutralL[0]", "NeutralL[1]"}[e], ErrSwitching, "a neutral reactor at the %s end needs a line-connected reactor there", freqscan.End(e))
 		}
 		sim.neutral[e] = n
 		n++
@@ -357,7 +358,7 @@ func NewSwitchingSimulator(net ThreePhase, s SwitchingSettings) (*SwitchingSimul
 	for _, a := range net.Arresters {
 		c, err := newArresterCurve(a.VI)
 		if err != nil {
-			return nil, fmt.Errorf("%w: arrester %q: %v", ErrSwitching, a.Name, err)
+			return nil, settingErr("Arresters", ErrSwitching, "arrester %q: %v", a.Name, err)
 		}
 		sim.curves = append(sim.curves, c)
 	}
@@ -376,7 +377,7 @@ func NewSwitchingSimulator(net ThreePhase, s SwitchingSettings) (*SwitchingSimul
 			minT, maxT = -3*s.ControlledSigma, controlWindow(net.Omega)+3*s.ControlledSigma
 		}
 		if (s.DeadTime+maxT)/dt > MaxSamples {
-			return nil, fmt.Errorf("%w: dead time / time step = %.4g exceeds %d samples", ErrSwitching, (s.DeadTime+maxT)/dt, MaxSamples)
+			return nil, settingErr("TimeStep", ErrSwitching, "dead time / time step = %.4g exceeds %d samples", (s.DeadTime+maxT)/dt, MaxSamples)
 		}
 		rd, err := newRingDown(sim, minT, maxT)
 		if err != nil {
@@ -778,6 +779,12 @@ func (sim *SwitchingSimulator) trappedAt(node int, trapped [3]float64) float64 {
 // currents that do not converge: ErrNoConvergence) stops the run; the error names
 // the first failed shot in the order drawn among those simulated.
 func (sim *SwitchingSimulator) Run(specs []ShotSpec, workers int, progress func(done int)) ([]Shot, error) {
+	return sim.RunContext(context.Background(), specs, workers, progress)
+}
+
+// RunContext is Run that also stops between shots when ctx is done: it then returns
+// the context's error, and no shots.
+func (sim *SwitchingSimulator) RunContext(ctx context.Context, specs []ShotSpec, workers int, progress func(done int)) ([]Shot, error) {
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
@@ -793,7 +800,7 @@ func (sim *SwitchingSimulator) Run(specs []ShotSpec, workers int, progress func(
 			defer wg.Done()
 			for !failed.Load() {
 				k := int(next.Add(1) - 1)
-				if k >= len(specs) {
+				if k >= len(specs) || ctx.Err() != nil {
 					return
 				}
 				if out[k], _, errs[k] = sim.Shot(specs[k], false); errs[k] != nil {
@@ -808,6 +815,9 @@ func (sim *SwitchingSimulator) Run(specs []ShotSpec, workers int, progress func(
 		}()
 	}
 	wg.Wait()
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	for k, err := range errs {
 		if err != nil {
 			return nil, fmt.Errorf("waves: switching: shot %d (closing angle %.4g°): %w (check the arresters' V-I tables, or try a smaller time step)", k+1, specs[k].CloseDeg, err)
@@ -825,11 +835,21 @@ func Switching(net ThreePhase, s SwitchingSettings, progress func(done int)) (*S
 	if err != nil {
 		return nil, err
 	}
+	return sim.Simulate(context.Background(), progress)
+}
+
+// Simulate runs the statistical switching study of the prepared simulator: draws the
+// shots (DrawShots, or ControlledShots with the settings' Controlled) and runs them
+// (RunContext), so a caller that needs the simulator afterwards (the worst shot's
+// waveforms, the ring-down) builds it once. It returns ctx's error when ctx ends
+// before the last shot.
+func (sim *SwitchingSimulator) Simulate(ctx context.Context, progress func(done int)) (*SwitchingResult, error) {
+	s, net := sim.set, sim.net
 	specs := DrawShots(s)
 	if s.Controlled {
 		specs = sim.ControlledShots()
 	}
-	shots, err := sim.Run(specs, s.Workers, progress)
+	shots, err := sim.RunContext(ctx, specs, s.Workers, progress)
 	if err != nil {
 		return nil, err
 	}

@@ -57,26 +57,44 @@ var ErrSettings = errors.New("energisation settings")
 // (for example the lattice diagram with an inductive source).
 var ErrMethod = errors.New("method cannot treat this network")
 
+// SettingError is an error about one setting of a simulation that the user's data can
+// cause, in the style of os.PathError: Setting names the field of the settings
+// (Energisation or SwitchingSettings, e.g. "TimeStep"), or of the circuit, that the
+// problem concerns, and Err is the problem (it wraps ErrSettings or ErrSwitching).
+// Callers read it with errors.As to name the input the setting came from.
+type SettingError struct {
+	Setting string
+	Err     error
+}
+
+func (e *SettingError) Error() string { return e.Err.Error() }
+func (e *SettingError) Unwrap() error { return e.Err }
+
+// settingErr returns a *SettingError about setting wrapping sentinel.
+func settingErr(setting string, sentinel error, format string, a ...any) error {
+	return &SettingError{Setting: setting, Err: fmt.Errorf("%w: %s", sentinel, fmt.Sprintf(format, a...))}
+}
+
 func (e Energisation) check() error {
 	switch {
 	case !(e.Duration > 0) || math.IsInf(e.Duration, 0):
-		return fmt.Errorf("%w: duration must be > 0 and finite, got %g s", ErrSettings, e.Duration)
+		return settingErr("Duration", ErrSettings, "duration must be > 0 and finite, got %g s", e.Duration)
 	case !(e.Omega > 0) || math.IsInf(e.Omega, 0):
-		return fmt.Errorf("%w: angular frequency must be > 0, got %g rad/s", ErrSettings, e.Omega)
+		return settingErr("Omega", ErrSettings, "angular frequency must be > 0, got %g rad/s", e.Omega)
 	case e.TimeStep < 0 || math.IsNaN(e.TimeStep) || math.IsInf(e.TimeStep, 0):
-		return fmt.Errorf("%w: time step must be >= 0, got %g s", ErrSettings, e.TimeStep)
+		return settingErr("TimeStep", ErrSettings, "time step must be >= 0, got %g s", e.TimeStep)
 	case math.IsNaN(e.TrappedPU) || math.IsInf(e.TrappedPU, 0) || math.Abs(e.TrappedPU) > 10:
-		return fmt.Errorf("%w: trapped charge must be within ±10 pu, got %g", ErrSettings, e.TrappedPU)
+		return settingErr("TrappedPU", ErrSettings, "trapped charge must be within ±10 pu, got %g", e.TrappedPU)
 	case math.IsNaN(e.CloseDeg) || math.IsInf(e.CloseDeg, 0):
-		return fmt.Errorf("%w: closing angle must be finite, got %g", ErrSettings, e.CloseDeg)
+		return settingErr("CloseDeg", ErrSettings, "closing angle must be finite, got %g", e.CloseDeg)
 	case e.Excitation != Step && e.Excitation != Sine:
-		return fmt.Errorf("%w: unknown excitation %d", ErrSettings, int(e.Excitation))
+		return settingErr("Excitation", ErrSettings, "unknown excitation %d", int(e.Excitation))
 	}
 	if e.TimeStep > e.Duration {
-		return fmt.Errorf("%w: time step %g s is longer than the duration %g s (a waveform needs two samples at least)", ErrSettings, e.TimeStep, e.Duration)
+		return settingErr("TimeStep", ErrSettings, "time step %g s is longer than the duration %g s (a waveform needs two samples at least)", e.TimeStep, e.Duration)
 	}
 	if e.TimeStep > 0 && e.Duration/e.TimeStep > MaxSamples {
-		return fmt.Errorf("%w: duration / time step = %.4g exceeds %d samples", ErrSettings, e.Duration/e.TimeStep, MaxSamples)
+		return settingErr("TimeStep", ErrSettings, "duration / time step = %.4g exceeds %d samples", e.Duration/e.TimeStep, MaxSamples)
 	}
 	return nil
 }

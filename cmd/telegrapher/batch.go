@@ -4,9 +4,10 @@ package main
 //
 //	parseBatch(file, r)        the rows, validated (batch_rows.go): errors read
 //	                           `LINES.csv: row N: column: problem`, exit 2
-//	screenLine(file, line)     one row as a study (through the study loader) screened by
-//	                           computeScan and computeEnergise: SIL, first resonance,
-//	                           worst watched harmonic, energisation peak, flags
+//	screenLine(ctx, file, line) one row as a study (through the study loader) screened
+//	                           by analysis.ScreenLine: SIL, first resonance, worst
+//	                           watched harmonic, energisation peak, severity; the flags
+//	                           in words
 //	screenInventory(...)       every row, in parallel over the cores (batch_run.go)
 //	batchTable(results)        the summary table, worst first
 //
@@ -14,25 +15,25 @@ package main
 // and batch.html, moved into place only when complete, in a folder of its own kind.
 
 import (
+	"context"
 	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"math"
-	"math/cmplx"
 	"os"
 	"sort"
 	"strings"
 	"time"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/freqscan"
 )
 
-// openEndRiseScreenPU is the no-load receiving-end voltage (over the sending end) above
-// which a line is flagged: 5 % is the usual allowance for the open-end rise of an
-// uncompensated line (common practice, no source).
-const openEndRiseScreenPU = 1.05
+// openEndRiseScreenPU is the open-end rise above which a line is flagged
+// (analysis.OpenEndRiseScreenPU).
+const openEndRiseScreenPU = analysis.OpenEndRiseScreenPU
 
 var batchCommand = func() *command {
 	return &command{
@@ -64,11 +65,11 @@ earlier screening wrote only the files its marker lists are replaced; --force ad
 files to a folder telegrapher did not write, removing nothing; a report's folder and a
 file given as DIR are refused, even with --force. DIR is checked before the screening
 starts.`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			out := fs.String("out", "", "write the summary into folder `DIR` (required)")
 			force := fs.Bool("force", false, "write into DIR even if telegrapher did not make it (overwrites its own file names only)")
 			jobs := fs.Int("jobs", 0, "screen `N` lines at a time (0: one per core)")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				const usage = "usage: telegrapher batch LINES.csv --out DIR [--force] [--jobs N]"
 				if len(args) != 1 {
 					return usagef("telegrapher batch: expected one LINES.csv file, got %d arguments\n%s", len(args), usage)
@@ -98,15 +99,13 @@ starts.`,
 					return err
 				}
 				defer folder.discard() // nothing to do once committed
-				stop := discardOnInterrupt(folder)
-				defer stop()
 				var progress func(int)
 				if isTerminal(stderr) {
 					progress = batchProgressBar(stderr, len(lines), "lines")
 				}
-				results, err := screenInventory(args[0], lines, *jobs, progress)
+				results, err := screenInventory(ctx, args[0], lines, *jobs, progress)
 				if err != nil {
-					return err
+					return folder.interrupted(ctx, err)
 				}
 				if err := writeBatch(results, args[0], folder); err != nil {
 					return err
@@ -138,63 +137,35 @@ type batchResult struct {
 	Severity       float64
 }
 
-// screenLine screens one row.
-func screenLine(file string, bl batchLine) (batchResult, error) {
+// screenLine screens one row: its study (through the study loader) screened by
+// analysis.ScreenLine, in display units with its flags in words.
+func screenLine(ctx context.Context, file string, bl batchLine) (batchResult, error) {
 	st, err := bl.study(file)
 	if err != nil {
 		return batchResult{}, err
 	}
-	r := batchResult{Row: bl.Row, Name: bl.Name}
-	w := 2 * math.Pi * st.Frequency
-	for _, l := range st.Line {
-		r.SILMW += l.SIL(st.Voltage, w) / 1e6 / float64(len(st.Line))
-	}
-	// Open-end rise with the line-connected reactors in place (they are switched with
-	// the line): Vr/Vs = 1/(A + B·Yr).
-	s := complex(0, w)
-	_, _, yr, _ := st.Network.Energising().Admittances(s)
-	r.OpenEndRisePU = cmplx.Abs(st.Line.Exact(s).VoltageRatio(yr))
-
-	sc, err := computeScan(st)
+	a, err := analysis.ScreenLine(ctx, st)
 	if err != nil {
 		return batchResult{}, err
 	}
-	r.GainLimit = sc.GainLimit
-	if p := firstResonance(sc.Peaks); p != nil {
-		r.FirstHz, r.FirstHarmonic, r.FirstGain = p.FHz, p.Harmonic, p.Gain
+	f0 := st.Frequency
+	r := batchResult{Row: bl.Row, Name: bl.Name, SILMW: a.SIL / 1e6, OpenEndRisePU: a.OpenEndRise,
+		GainLimit: a.Screening.GainLimit, EnergisePeakPU: a.EnergisePeak, EnergiseTMs: a.EnergiseT * 1e3, Severity: a.Severity}
+	if p := a.First; a.HasFirst {
+		r.FirstHz, r.FirstHarmonic, r.FirstGain = p.F, p.F/f0, p.Gain
 		if p.Unbounded {
 			r.FirstGain = math.Inf(1)
 		}
 	}
-	for _, h := range sc.Harmonics {
-		if h.Watched && (r.WorstOrder == 0 || h.BandGain > r.WorstBandGain) {
-			r.WorstOrder, r.WorstBandGain, r.WorstSequence = h.Order, h.BandGain, h.Sequence
-		}
+	if h := a.Worst; a.HasWorst {
+		r.WorstOrder, r.WorstBandGain, r.WorstSequence = h.Order, h.BandGain, string(h.Sequence)
 	}
-	en, err := computeEnergise(st, "")
-	if err != nil {
-		return batchResult{}, err
-	}
-	r.EnergisePeakPU, r.EnergiseTMs = en.PeakPU, en.TPeakMs
-
-	ratio := func(v, limit float64) float64 {
-		if math.IsInf(v, 1) {
-			return math.MaxFloat64
-		}
-		return v / limit
-	}
-	// the energisation peak less the method's stated accuracy at wavefronts, as the
-	// flag compares it (energiseOver)
-	r.Severity = math.Max(ratio(r.OpenEndRisePU, openEndRiseScreenPU), ratio(math.Abs(r.EnergisePeakPU)-en.FrontOvershootPU, energisePeakScreenPU))
-	for _, h := range sc.Harmonics {
+	for _, h := range a.Screening.Rows {
 		if h.Watched && h.OverLimit {
-			r.Flags = append(r.Flags, fmt.Sprintf("h%d%s gain %s > %g", h.Order, sequenceMark(h.Sequence), fmtGain(h.BandGain), sc.GainLimit))
-		}
-		if h.Watched && sc.GainLimit > 0 {
-			r.Severity = math.Max(r.Severity, ratio(h.BandGain, sc.GainLimit))
+			r.Flags = append(r.Flags, fmt.Sprintf("h%d%s gain %s > %g", h.Order, sequenceMark(string(h.Sequence)), fmtGain(h.BandGain), a.Screening.GainLimit))
 		}
 	}
-	if over, _ := energiseOver(en, energiseLimit()); over {
+	if a.EnergiseOver {
 		r.Flags = append(r.Flags, fmt.Sprintf("energisation %.2f pu > %.1f", math.Abs(r.EnergisePeakPU), energisePeakScreenPU))
 	}
 	if r.OpenEndRisePU > openEndRiseScreenPU {
@@ -217,8 +188,9 @@ func sequenceMark(seq string) string {
 }
 
 // screenInventory screens every line on up to jobs goroutines (0 = one per core) and
-// returns the results worst first. The first error (in row order) is returned.
-func screenInventory(file string, lines []batchLine, jobs int, progress func(int)) ([]batchResult, error) {
+// returns the results worst first. The first error (in row order) is returned; when ctx
+// is cancelled, the rows not yet started are skipped and ctx's error is returned.
+func screenInventory(ctx context.Context, file string, lines []batchLine, jobs int, progress func(int)) ([]batchResult, error) {
 	results := make([]batchResult, len(lines))
 	errs := make([]error, len(lines))
 	parallelEach(len(lines), jobs, 200*time.Millisecond, progress, func(i int) {
@@ -227,8 +199,14 @@ func screenInventory(file string, lines []batchLine, jobs int, progress func(int
 				errs[i] = fmt.Errorf("%s: row %d: internal error (a bug, please report it): %v", file, lines[i].Row, p)
 			}
 		}()
-		results[i], errs[i] = screenLine(file, lines[i])
+		if errs[i] = ctx.Err(); errs[i] != nil {
+			return
+		}
+		results[i], errs[i] = screenLine(ctx, file, lines[i])
 	})
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	for _, err := range errs {
 		if err != nil {
 			return nil, err

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"math"
 	"strings"
 	"sync/atomic"
@@ -201,7 +202,7 @@ func TestBatchTriplenSequence(t *testing.T) {
 		}
 		return ""
 	}
-	pos, err := screenLine("LINES.csv", lines[0])
+	pos, err := screenLine(context.Background(), "LINES.csv", lines[0])
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -211,7 +212,7 @@ func TestBatchTriplenSequence(t *testing.T) {
 	if f := flag(pos, "h5 "); f != "" && strings.Contains(f, "sequence") {
 		t.Errorf("h5 is not triplen, yet marked: %q", f)
 	}
-	zero, err := screenLine("LINES.csv", lines[1])
+	zero, err := screenLine(context.Background(), "LINES.csv", lines[1])
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"encoding/csv"
 	"fmt"
 	"math"
@@ -229,7 +230,7 @@ func BenchmarkBatch1000(b *testing.B) {
 	}
 	b.ResetTimer()
 	for b.Loop() {
-		if _, err := screenInventory(path, lines, 0, nil); err != nil {
+		if _, err := screenInventory(context.Background(), path, lines, 0, nil); err != nil {
 			b.Fatal(err)
 		}
 	}

@@ -6,6 +6,7 @@ package main
 //   printCheck(w, st): the listing; the report command may reuse it.
 
 import (
+	"context"
 	"flag"
 	"fmt"
 	"io"
@@ -22,8 +23,8 @@ var checkCommand = func() *command {
 value in its unit, and whether it was given, filled by a default, or derived (a source
 impedance from its short-circuit level, an inductance from a reactance). Any problem is
 reported as FILE: key.path: problem, with exit status 2.`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
-			return func(args []string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
+			return func(ctx context.Context, args []string) error {
 				st, err := studyArg("check", args, stderr)
 				if err != nil {
 					return err

@@ -5,7 +5,8 @@ package main
 // frequency_hz), and the ABCD of the exact, nominal pi, nominal T and short-line models
 // with each lumped model's error against the exact one.
 //
-//   computeConstants(st, atHz) (constantsResult, error): everything above; atHz = 0
+//   computeConstants(st, atHz) (constantsResult, error): analysis.Constants in display
+//   units, everything above; atHz = 0
 //     means frequency_hz. The report command reuses it.
 //   printConstants(w, st, res): the readable table.
 //
@@ -13,12 +14,14 @@ package main
 // frequency; a geometry-derived line adds `sequence` (lineSequence, sweep.go).
 
 import (
+	"context"
 	"flag"
 	"fmt"
 	"io"
 	"math"
 	"math/cmplx"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 	"github.com/telegrapher/telegrapher/propagation"
 )
@@ -36,12 +39,12 @@ short-line models with each one's error against the exact model; the line's clas
 length and by electrical length; and how many nominal-pi sections in cascade keep the
 error under 1 %. With several sections each section is listed and the ABCD is that of
 the whole cascade. --json writes the same as one JSON document.`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			atHz := fs.Float64("at-hz", 0, "evaluate at this frequency in Hz instead of frequency_hz (SIL and no-load rise stay at frequency_hz)")
 			asJSON := fs.Bool("json", false, "write one JSON document to standard output")
 			sweep := fs.Bool("sweep", false, "also list the constants over frequency, 1 Hz to 1 MHz")
 			plotPath := fs.String("plot", "", "with --sweep: write the sweep plot to `FILE` (.png or .svg)")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				atGiven := false
 				fs.Visit(func(f *flag.Flag) { atGiven = atGiven || f.Name == "at-hz" })
 				if atGiven && !(*atHz > 0 && *atHz <= maxAtHz) {
@@ -150,17 +153,11 @@ type constantsResult struct {
 	ClassByLength       string                `json:"class_by_length"`
 	ClassByElectrical   string                `json:"class_by_electrical_length"`
 	ModelErrorPct       map[string]modelError `json:"model_error"`
-	PiSectionsFor1Pct   int                   `json:"pi_sections_for_1pct"` // 0: more than maxPiSections
+	PiSectionsFor1Pct   int                   `json:"pi_sections_for_1pct"` // 0: more than analysis.MaxPiSections
 	Sections            []sectionOut          `json:"sections,omitempty"`
 	Sequence            *sequenceOut          `json:"sequence,omitempty"`
 	Sweep               *sweepResult          `json:"sweep,omitempty"`
 }
-
-// maxPiSections is the largest cascade of nominal-pi sections tried for the 1 % count.
-const maxPiSections = 1000
-
-// piTarget is the relative error the nominal-pi cascade must stay under (1 %).
-const piTarget = 0.01
 
 // Classes by length (common practice, no single source: short < 80 km, medium 80 to
 // 250 km, long > 250 km), and the same bounds as electrical lengths at 50 Hz, where the
@@ -177,73 +174,54 @@ const (
 // phase delay.
 func computeConstants(st *study.Study, atHz float64) (constantsResult, error) {
 	var r constantsResult
-	if len(st.Line) == 0 {
-		return r, fmt.Errorf("internal error: the study has no line")
+	a, err := analysis.Constants(st, atHz)
+	if err != nil {
+		return r, err
 	}
-	f := st.Frequency
-	if atHz > 0 {
-		f = atHz
-	}
-	w, w0 := 2*math.Pi*f, 2*math.Pi*st.Frequency
-	s, s0 := complex(0, w), complex(0, w0)
-	length := st.Line.Length()
-	r.FrequencyHz, r.SystemFrequencyHz, r.LengthKm = f, st.Frequency, length/1e3
-
-	var gl complex128 // total γl
-	var lTot, cTot float64
-	for _, l := range st.Line {
-		g, zc := l.GammaZc(s)
-		z0, y0 := l.At(s0)
-		zl, _ := l.Lossless(w0)
+	f := a.Frequency
+	w := 2 * math.Pi * f
+	r.FrequencyHz, r.SystemFrequencyHz, r.LengthKm = f, st.Frequency, a.Length/1e3
+	for _, sc := range a.Sections {
+		l, g := sc.Line, sc.Gamma
 		sec := sectionOut{
-			Name: l.Name, LengthKm: l.Length / 1e3, ZcOhm: zc, GammaPerKm: g * 1e3,
-			AlphaNpPerKm: real(g) * 1e3, BetaRadPerKm: imag(g) * 1e3, ZcLosslessOhm: zl,
+			Name: l.Name, LengthKm: l.Length / 1e3, ZcOhm: sc.Zc, GammaPerKm: g * 1e3,
+			AlphaNpPerKm: real(g) * 1e3, BetaRadPerKm: imag(g) * 1e3, ZcLosslessOhm: sc.ZcLossless,
 			ElectricalLengthDeg: imag(g) * l.Length * 180 / math.Pi,
-			inductance:          imag(z0) / w0 * l.Length, capacitance: imag(y0) / w0 * l.Length,
 		}
 		if imag(g) > 0 {
 			sec.VelocityKmPerS = w / imag(g) / 1e3
 		}
 		sec.Sequence = lineSequence(l, f)
-		gl += g * complex(l.Length, 0)
-		lTot += sec.inductance
-		cTot += sec.capacitance
 		r.Sections = append(r.Sections, sec)
 	}
-	gamma := gl / complex(length, 0)
+	gamma := a.Gamma
 	r.GammaPerKm = gamma * 1e3
 	r.AlphaNpPerKm, r.BetaRadPerKm = real(gamma)*1e3, imag(gamma)*1e3
 	r.AlphaDBPer100Km = r.AlphaNpPerKm * 100 * 20 / math.Ln10
 	r.BetaDegPerKm = r.BetaRadPerKm * 180 / math.Pi
-	r.ElectricalLengthDeg = imag(gl) * 180 / math.Pi
+	r.ElectricalLengthDeg = imag(a.GammaL) * 180 / math.Pi
 	if imag(gamma) > 0 {
 		r.VelocityKmPerS = w / imag(gamma) / 1e3
 		r.WavelengthKm = 2 * math.Pi / imag(gamma) / 1e3
 		r.VelocityFractionOfC = r.VelocityKmPerS * 1e3 / propagation.SpeedOfLight
 	}
-	if lTot > 0 && cTot > 0 {
-		r.ZcLosslessOhm = math.Sqrt(lTot / cTot)
-		r.SILMW = st.Voltage * st.Voltage / r.ZcLosslessOhm / 1e6
+	if a.ZcLossless > 0 {
+		r.ZcLosslessOhm = a.ZcLossless
+		r.SILMW = a.SIL / 1e6
 	}
-	exact := st.Line.Exact(s)
+	r.ZcOhm = a.Zc
 	if len(st.Line) == 1 {
-		r.ZcOhm = r.Sections[0].ZcOhm
 		r.Sequence = r.Sections[0].Sequence
 		r.Sections = nil
-	} else {
-		r.ZcOhm = cascadeZc(exact)
 	}
 	r.ZcAbsOhm, r.ZcAngleDeg = cmplx.Abs(r.ZcOhm), cmplx.Phase(r.ZcOhm)*180/math.Pi
-	r.NoLoadRisePU = cmplx.Abs(st.Line.Exact(s0).VoltageRatio(0))
-
-	pi, tee, short := lumped(st.Line, s, 1)
-	r.ABCD = modelsOut{Exact: abcdOf(exact), NominalPi: abcdOf(pi), NominalT: abcdOf(tee), Short: abcdOf(short)}
-	r.ModelErrorPct = map[string]modelError{
-		"nominal_pi": errorAgainst(pi, exact),
-		"nominal_t":  errorAgainst(tee, exact),
-		"short":      errorAgainst(short, exact),
+	r.NoLoadRisePU = a.NoLoadRise
+	r.ABCD = modelsOut{Exact: abcdOf(a.Exact), NominalPi: abcdOf(a.Pi), NominalT: abcdOf(a.Tee), Short: abcdOf(a.Short)}
+	r.ModelErrorPct = map[string]modelError{}
+	for k, e := range a.Errors {
+		r.ModelErrorPct[k] = modelError(e)
 	}
-	r.PiSectionsFor1Pct = piSectionsNeeded(st.Line, s, exact)
+	r.PiSectionsFor1Pct = a.PiSectionsFor1Pct
 	r.ClassByLength = classify(r.LengthKm, shortKm, mediumKm)
 	r.ClassByElectrical = classify(r.ElectricalLengthDeg, shortDeg, mediumDeg)
 	if !finite(r.AlphaNpPerKm, r.BetaRadPerKm, real(r.ZcOhm), imag(r.ZcOhm), r.NoLoadRisePU) {
@@ -252,122 +230,11 @@ func computeConstants(st *study.Study, atHz float64) (constantsResult, error) {
 	return r, nil
 }
 
-// cascadeZc returns sqrt(B/C) of a two-port (the geometric mean of its image
-// impedances), independent of the two-port's scale.
-func cascadeZc(p propagation.TwoPort) complex128 {
-	if p.C == 0 {
-		return 0
-	}
-	return propagation.PrincipalSqrt(p.B / p.C)
-}
-
-// lumped returns the nominal pi, nominal T and short models of the line cut into n
-// pieces of equal length, each piece lumped from its own totals Z = Σ z·l and
-// Y = Σ y·l over the sections it spans. With n = 1 they are the models of the whole
-// line (total series impedance and total shunt admittance); the answer does not depend
-// on how a uniform line is split into sections in the study file.
-func lumped(c propagation.Cascade, s complex128, n int) (pi, tee, short propagation.TwoPort) {
-	pi, tee, short = propagation.Identity(), propagation.Identity(), propagation.Identity()
-	total := c.Length()
-	zs := make([]complex128, len(c))
-	ys := make([]complex128, len(c))
-	for i, l := range c {
-		zs[i], ys[i] = l.At(s)
-	}
-	starts := make([]float64, len(c)+1) // starts[j] is where section j begins
-	for j, l := range c {
-		starts[j+1] = starts[j] + l.Length
-	}
-	first := 0 // the first section that ends after the current piece begins
-	for k := 0; k < n; k++ {
-		a, b := total*float64(k)/float64(n), total*float64(k+1)/float64(n)
-		for first < len(c)-1 && starts[first+1] <= a {
-			first++
-		}
-		var Z, Y complex128
-		for j := first; j < len(c) && starts[j] < b; j++ {
-			if w := math.Min(b, starts[j+1]) - math.Max(a, starts[j]); w > 0 {
-				Z += zs[j] * complex(w, 0)
-				Y += ys[j] * complex(w, 0)
-			}
-		}
-		pi = pi.Then(lumpedPi(Z, Y))
-		tee = tee.Then(lumpedT(Z, Y))
-		short = short.Then(propagation.Series(Z))
-	}
-	return pi, tee, short
-}
-
-// lumpedPi is the nominal pi of the totals Z (ohm) and Y (S):
-//
-//	A = D = 1 + ZY/2,  B = Z,  C = Y(1 + ZY/4)
-func lumpedPi(Z, Y complex128) propagation.TwoPort {
-	a := 1 + Z*Y/2
-	return propagation.TwoPort{A: a, B: Z, C: Y * (1 + Z*Y/4), D: a}
-}
-
-// lumpedT is the nominal T of the totals Z and Y:
-//
-//	A = D = 1 + ZY/2,  B = Z(1 + ZY/4),  C = Y
-func lumpedT(Z, Y complex128) propagation.TwoPort {
-	a := 1 + Z*Y/2
-	return propagation.TwoPort{A: a, B: Z * (1 + Z*Y/4), C: Y, D: a}
-}
-
 // abcdOf returns the true elements; an element beyond a float64 comes back infinite
 // and is written as null with its key in "overflow".
 func abcdOf(p propagation.TwoPort) abcdOut {
 	a, b, c, d, _ := p.Elements()
 	return abcdOut{a, b, c, d}
-}
-
-// errorAgainst returns the relative error of each element of m against e in percent,
-// comparing scaled elements (a model and the exact two-port of the same line may carry
-// different scales).
-func errorAgainst(m, e propagation.TwoPort) modelError {
-	k := math.Exp(m.LogScale - e.LogScale)
-	rel := func(x, y complex128) float64 {
-		if y == 0 {
-			if x == 0 {
-				return 0
-			}
-			return math.Inf(1)
-		}
-		v := cmplx.Abs(x*complex(k, 0)-y) / cmplx.Abs(y) * 100
-		if math.IsNaN(v) {
-			return math.Inf(1)
-		}
-		return v
-	}
-	me := modelError{A: rel(m.A, e.A), B: rel(m.B, e.B), C: rel(m.C, e.C), D: rel(m.D, e.D)}
-	me.Max = math.Max(math.Max(me.A, me.B), math.Max(me.C, me.D))
-	return me
-}
-
-// piSectionsNeeded returns the fewest nominal-pi sections of equal length over the
-// whole line whose cascade is within piTarget of the exact two-port in every element, or 0 when more
-// than maxPiSections are needed. The error falls about as 1/n², so it bisects.
-func piSectionsNeeded(c propagation.Cascade, s complex128, exact propagation.TwoPort) int {
-	ok := func(n int) bool {
-		pi, _, _ := lumped(c, s, n)
-		return errorAgainst(pi, exact).Max < piTarget*100
-	}
-	if ok(1) {
-		return 1
-	}
-	if !ok(maxPiSections) {
-		return 0
-	}
-	lo, hi := 1, maxPiSections // ok(lo) false, ok(hi) true
-	for hi-lo > 1 {
-		mid := (lo + hi) / 2
-		if ok(mid) {
-			hi = mid
-		} else {
-			lo = mid
-		}
-	}
-	return hi
 }
 
 func classify(v, short, medium float64) string {
@@ -419,7 +286,7 @@ func printConstants(w io.Writer, st *study.Study, r constantsResult) {
 	if r.PiSectionsFor1Pct > 0 {
 		fmt.Fprintf(w, "  nominal pi          %d section(s) in cascade keep every ABCD element within 1 %% of exact\n", r.PiSectionsFor1Pct)
 	} else {
-		fmt.Fprintf(w, "  nominal pi          more than %d sections needed to stay within 1 %% of exact\n", maxPiSections)
+		fmt.Fprintf(w, "  nominal pi          more than %d sections needed to stay within 1 %% of exact\n", analysis.MaxPiSections)
 	}
 	if len(r.Sections) > 0 {
 		fmt.Fprintf(w, "\nsections (from the sending end)\n")

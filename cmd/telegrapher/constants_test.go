@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 )
 
 // fndStudy is a valid single-section study used by the foundation CLI tests.
@@ -241,7 +243,10 @@ func TestPiSectionsCount(t *testing.T) {
 		n := res.PiSectionsFor1Pct
 		s := complex(0, 2*math.Pi*f)
 		exact := st.Line.Exact(s)
-		errN := func(k int) float64 { pi, _, _ := lumped(st.Line, s, k); return errorAgainst(pi, exact).Max }
+		errN := func(k int) float64 {
+			pi, _, _ := analysis.Lumped(st.Line, s, k)
+			return analysis.ModelErrorOf(pi, exact).Max
+		}
 		if n < 1 || errN(n) >= 1 || (n > 1 && errN(n-1) < 1) {
 			t.Errorf("%g Hz: n = %d, error(n) = %g %%, error(n-1) = %g %%", f, n, errN(n), errN(max(n-1, 1)))
 		}

@@ -7,6 +7,7 @@ package main
 //   demoStudy() (*study.Study, error): the parsed built-in study, for reuse.
 
 import (
+	"context"
 	_ "embed"
 	"flag"
 	"fmt"
@@ -43,11 +44,11 @@ write needs --force, which adds the report's files and removes nothing; a file o
 batch folder is refused (see 'telegrapher help report'). With --cable the study is the
 built-in line in sections: two overhead sections with an 8 km river cable crossing
 near the receiving end.`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			out := fs.String("out", demoDir, "write the report into folder `DIR`")
 			force := fs.Bool("force", false, "write into DIR even if telegrapher did not make it (overwrites its own file names only)")
 			cable := fs.Bool("cable", false, "the built-in line in sections with a cable crossing instead (demo_cable.toml)")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				if len(args) != 0 {
 					return usagef("telegrapher demo: takes no study file (it has its own)\nusage: telegrapher demo [--out DIR] [--force] [--cable]")
 				}
@@ -59,7 +60,7 @@ near the receiving end.`,
 				if err != nil {
 					return fmt.Errorf("internal error: the built-in study does not load: %v", err)
 				}
-				doc, err := writeReportStatus(st, *out, *force, newStatusLine(stderr))
+				doc, err := writeReportStatus(ctx, st, *out, *force, newStatusLine(stderr))
 				if err != nil {
 					return err
 				}

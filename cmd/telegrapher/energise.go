@@ -3,36 +3,36 @@ package main
 // The energise command: the energisation transient of the open-ended line, all poles
 // closed together (positive-sequence equivalent).
 //
-//	computeEnergise(st, method) (energiseResult, error)  the waveforms by one method
+//	computeEnergise(st, method) (energiseResult, error)  analysis.Energise in display
+//	                            units: the waveforms by one method
 //	                            (lattice, bergeron or laplace; "" = the study's), the
 //	                            peaks, the method's notes and limits, the dominant
 //	                            frequencies of the transient beside the scan's
 //	                            resonances of the same network, and the lattice
 //	                            diagram when the method is lattice
-//	compareEnergise(st)         every method the study allows on one time step, and
-//	                            their largest differences
+//	compareEnergise(st)         analysis.CompareEnergise: every method the study
+//	                            allows on one time step, and their largest differences,
+//	                            with their causes in words
 //	energiseTable(res)          the waveforms as a report.Table (CSV)
 //	energisePlotData(res, ...)  the input of report.EnergisePlot; report.LatticePlot
 //	                            draws res.diagram
 //
 // A method that cannot treat the study (the lattice diagram with an inductive source
-// or a shunt) is an input error naming energise.method (exit 2).
+// or a shunt) is an *analysis.MethodError naming energise.method (exit 2).
 
 import (
+	"context"
 	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"math"
-	"math/cmplx"
-	"sort"
 	"strings"
 
-	"github.com/mjibson/go-dsp/fft"
-	"github.com/mjibson/go-dsp/window"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 	"github.com/telegrapher/telegrapher/freqscan"
@@ -66,14 +66,14 @@ The summary gives the peak at each end and when, the method's limits, and the do
 frequencies of the transient (Hann window and FFT of the receiving-end voltage) beside
 the resonances of the same network found by a frequency scan. Results are unprotected
 overvoltages (no surge arresters).`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			method := fs.String("method", "", "lattice, bergeron or laplace (default: the study's [energise] method)")
 			compare := fs.Bool("compare", false, "run every method the study allows and print the largest difference")
 			asJSON := fs.Bool("json", false, "write the result as one JSON document")
 			csvPath := fs.String("csv", "", "write the waveforms to this CSV file")
 			plotPath := fs.String("plot", "", "write the waveforms plot (.png or .svg)")
 			diagramPath := fs.String("diagram", "", "write the lattice diagram (.png or .svg)")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				if *method != "" && !validMethod(*method) {
 					return usagef("telegrapher energise: --method %s: must be lattice, bergeron or laplace", *method)
 				}
@@ -175,8 +175,9 @@ func latticeDiagram(st *study.Study, res energiseResult) (d *waves.LatticeDiagra
 		return lat.diagram, lineAloneNote, nil
 	case cannotRun(err):
 		msg := err.Error()
-		if i := strings.Index(msg, "cannot treat this study: "); i >= 0 {
-			msg = msg[i+len("cannot treat this study: "):]
+		var me *analysis.MethodError
+		if errors.As(err, &me) {
+			msg = me.Problem
 		}
 		msg = strings.NewReplacer("; shorten the duration or use bergeron or laplace", "; shorten energise.duration_ms",
 			" (use bergeron or laplace)", "").Replace(msg)
@@ -312,199 +313,6 @@ type energisePair struct {
 	Cause          string  `json:"cause"`
 }
 
-// energisation returns the study's [energise] settings for package waves, and how
-// the duration was chosen ("given", or the default's reason, see energiseDuration).
-func energisation(st *study.Study) (waves.Energisation, string) {
-	e := waves.Energisation{
-		Excitation: waves.Step,
-		Omega:      2 * math.Pi * st.Frequency,
-		CloseDeg:   st.Energise.CloseDeg,
-		TrappedPU:  st.Energise.TrappedPU,
-		Duration:   st.Energise.Duration,
-		TimeStep:   st.Energise.TimeStep,
-	}
-	if st.Energise.Waveform == "sine" {
-		e.Excitation = waves.Sine
-	}
-	how := "given"
-	if !st.Energise.DurationGiven {
-		e.Duration, how = energiseDuration(st, e.Excitation)
-	}
-	return e, how
-}
-
-// Bounds of the default energisation duration.
-const (
-	// defaultDurationMin: the former fixed default, 20 ms (one cycle at 50 Hz).
-	defaultDurationMin = 20e-3
-	// defaultRoundTrips: travelling waves get at least five round trips (10 τ)
-	// (common practice, no source: the switching surge has its crest within the
-	// first few round trips).
-	defaultRoundTrips = 5
-	// defaultDecayTimes: a natural oscillation is followed for three of its time
-	// constants Q/(π f), until it has decayed to e^-3 = 5 % of its amplitude: a
-	// later alignment with the power-frequency crest can then add at most 5 % of it.
-	defaultDecayTimes = 3
-	// defaultDurationCycles caps the default at ten cycles of the system frequency.
-	defaultDurationCycles = 10
-	// defaultBeatHarmonic: a natural oscillation above this multiple of the system
-	// frequency has a crest within π·f0/f1 of every EMF crest, which loses at most
-	// 1 − cos(π/20) = 1.2 % of the EMF against perfect alignment; the first crests,
-	// before it decays, are then the highest and its beat is not followed.
-	defaultBeatHarmonic = 20
-)
-
-// energiseDuration chooses the duration of a run whose study gives no duration_ms:
-// the longest of 20 ms, five round trips of the line (10 τ), two periods of the
-// network's lowest natural oscillation (the first resonance f1 of |Vr/E| with the
-// far end open, from a frequency scan: the source inductance against the line
-// capacitance and shunts) and, for a sine EMF with f1 below the 20th harmonic, the
-// time that oscillation takes to decay to 5 % (3·Q/(π·f1), Q from the resonance's
-// -3 dB band), but no longer than one beat period 1/|f1 − n·f0| with the nearest
-// harmonic n·f0 (after it the two crests align again as before); at most ten cycles
-// of the system frequency. The text says which bound decided.
-func energiseDuration(st *study.Study, exc waves.Excitation) (float64, string) {
-	f0 := st.Frequency
-	tau := travelTime(st)
-	d, why := defaultDurationMin, "at least 20 ms"
-	if t := 2 * defaultRoundTrips * tau; t > d {
-		d, why = t, fmt.Sprintf("%d round trips of the line, 10 x %.4g ms", defaultRoundTrips, tau*1e3)
-	}
-	f1, q := lowestResonance(st, tau)
-	if f1 > 0 {
-		if t := 2 / f1; t > d {
-			d, why = t, fmt.Sprintf("two periods of the lowest natural frequency %.4g Hz", f1)
-		}
-		if exc == waves.Sine && f1 < defaultBeatHarmonic*f0 {
-			decay := math.Inf(1)
-			if q > 0 {
-				decay = defaultDecayTimes * q / (math.Pi * f1)
-			}
-			n := math.Max(1, math.Round(f1/f0))
-			beat := math.Inf(1)
-			if f1 != n*f0 {
-				beat = 1 / math.Abs(f1-n*f0)
-			}
-			t, w := decay, fmt.Sprintf("the %.4g Hz natural oscillation (Q %.3g) decayed to 5 %%, 3Q/(π f)", f1, q)
-			if q == 0 {
-				w = fmt.Sprintf("the %.4g Hz natural oscillation, undamped", f1)
-			}
-			if beat < decay {
-				t, w = beat, fmt.Sprintf("one beat period of the %.4g Hz natural oscillation with the %g Hz harmonic", f1, n*f0)
-			}
-			if t > d {
-				d, why = t, w
-			}
-		}
-	}
-	if top := math.Max(defaultDurationCycles/f0, defaultDurationMin); d > top {
-		d, why = top, fmt.Sprintf("%s, capped at %d cycles", why, defaultDurationCycles)
-	}
-	// A given time step bounds the samples.
-	if dt := st.Energise.TimeStep; dt > 0 && d/dt > waves.MaxSamples {
-		d, why = dt*waves.MaxSamples, fmt.Sprintf("%s, capped at %d samples of the given time step", why, waves.MaxSamples)
-	}
-	return d, "default: " + why
-}
-
-// lowestResonance returns the lowest resonance of |Vr/E| of the energised network
-// (far end open) and its Q (0 when unbounded or its band is not defined), on a grid
-// of 4000 points from 1 Hz to the larger of 2 kHz and the line's half-wave
-// frequency 1/(2τ); 0, 0 when there is none.
-func lowestResonance(st *study.Study, tau float64) (f, q float64) {
-	net := st.Network.Energising()
-	top := math.Max(2e3, 1/(2*tau))
-	const n = 4000
-	freqs := make([]float64, n)
-	for i := range freqs {
-		freqs[i] = 1 + (top-1)*float64(i)/(n-1)
-	}
-	pts := freqscan.Scan(nil, net, freqs)
-	for _, p := range freqscan.Peaks(net, pts) {
-		if f == 0 || p.F < f {
-			f, q = p.F, p.Q
-			if p.Unbounded || math.IsInf(p.Q, 0) || math.IsNaN(p.Q) {
-				q = 0
-			}
-		}
-	}
-	return f, q
-}
-
-// lineIsLossy reports whether any section has series resistance or shunt conductance
-// at the system frequency.
-func lineIsLossy(st *study.Study) bool {
-	for _, l := range st.Network.Line {
-		z, y := l.At(complex(0, 2*math.Pi*st.Frequency))
-		if real(z) > 0 || real(y) > 0 {
-			return true
-		}
-	}
-	return false
-}
-
-func travelTime(st *study.Study) float64 {
-	var t float64
-	for _, l := range st.Network.Line {
-		t += l.TravelTime(2 * math.Pi * st.Frequency)
-	}
-	return t
-}
-
-// runMethod computes the waveform of one method; a method that cannot treat the study
-// is a usageError naming energise.method.
-func runMethod(st *study.Study, method string, e waves.Energisation) (*waves.Waveform, *waves.LatticeDiagram, string, error) {
-	net := st.Network.Energising()
-	lossy := lineIsLossy(st)
-	var (
-		w      *waves.Waveform
-		d      *waves.LatticeDiagram
-		err    error
-		limits string
-	)
-	switch method {
-	case "lattice":
-		opt := waves.LatticeOptions{}
-		limits = "lattice diagram: resistive source, no shunts; exact for a lossless line"
-		if lossy {
-			opt.AttenuationHz = 1 / (4 * travelTime(st))
-			limits = fmt.Sprintf("lattice diagram: resistive source, no shunts; losses as a distortionless attenuation at the quarter-wave frequency %.4g Hz", opt.AttenuationHz)
-		}
-		w, d, err = waves.Lattice(net, e, opt)
-	case "bergeron":
-		w, err = waves.Bergeron(net, e, waves.BergeronOptions{LumpedResistance: lossy})
-		limits = "Bergeron: lossless line pieces with constants at the system frequency (no frequency dependence), resistance lumped at ends and middle; trapezoidal lumped elements"
-		if len(st.Network.Line) > 1 {
-			limits = "Bergeron: lossless line pieces (each section its own surge impedance and travel time, split at mid-line) with constants at the system frequency (no frequency dependence), resistance lumped at the ends of each piece; trapezoidal lumped elements"
-		}
-	case "laplace":
-		w, err = waves.Laplace(net, e, waves.LaplaceOptions{})
-		limits = fmt.Sprintf("numerical Laplace transform: linear network, every element at its frequency-dependent value; the window smooths wavefronts over about two time steps and overshoots a jump by at most %.2g %% of it", waves.LaplaceFrontOvershoot*100)
-	default:
-		return nil, nil, "", usagef("%s: energise.method: must be lattice, bergeron or laplace, got %q", st.File, method)
-	}
-	switch {
-	case errors.Is(err, waves.ErrMethod):
-		return nil, nil, "", usagef("%s: energise.method: %s cannot treat this study: %s", st.File, method, strings.TrimPrefix(err.Error(), waves.ErrMethod.Error()+": "))
-	case errors.Is(err, waves.ErrSettings):
-		msg := strings.TrimPrefix(err.Error(), waves.ErrSettings.Error()+": ")
-		key := "energise"
-		for _, k := range []struct{ word, key string }{
-			{"time step", "energise.time_step_us"}, {"duration", "energise.duration_ms"},
-			{"trapped", "energise.trapped_pu"}, {"closing angle", "energise.close_deg"},
-		} {
-			if strings.Contains(msg, k.word) {
-				key = k.key
-				break
-			}
-		}
-		return nil, nil, "", usagef("%s: %s: %s", st.File, key, msg)
-	case err != nil:
-		return nil, nil, "", err
-	}
-	return w, d, limits, nil
-}
-
 // computeEnergise computes the energisation by method ("" = the study's [energise]
 // method, default laplace).
 func computeEnergise(st *study.Study, method string) (energiseResult, error) {
@@ -514,11 +322,12 @@ func computeEnergise(st *study.Study, method string) (energiseResult, error) {
 	if method == "" {
 		method = "laplace"
 	}
-	e, durationHow := energisation(st)
-	w, d, limits, err := runMethod(st, method, e)
+	a, err := analysis.Energise(st, method)
 	if err != nil {
 		return energiseResult{}, err
 	}
+	e, durationHow, w, d, limits := a.Settings, a.DurationHow, a.Wave, a.Diagram, a.Limits
+	method = a.Method
 	base := st.Voltage * math.Sqrt2 / math.Sqrt(3) / 1e3
 	res := energiseResult{
 		Method:           method,
@@ -529,7 +338,7 @@ func computeEnergise(st *study.Study, method string) (energiseResult, error) {
 		DurationMs:       e.Duration * 1e3,
 		DurationHow:      durationHow,
 		TimeStepUs:       w.Step * 1e6,
-		TravelTimeMs:     travelTime(st) * 1e3,
+		TravelTimeMs:     a.TravelTime * 1e3,
 		Limits:           limits,
 		FrontOvershootPU: w.Overshoot,
 		Notes:            w.Notes,
@@ -560,25 +369,7 @@ func computeEnergise(st *study.Study, method string) (energiseResult, error) {
 			res.PeakAnyPU, res.PeakAnyWhere, res.PeakAnyXKm = pk, "junction "+j.Name, j.X/1e3
 		}
 	}
-	res.Resonances = scanResonances(st, w.Step)
-	res.Spectrum = transientSpectrum(w.Receiving, w.Step, st.Frequency, res.Resonances)
-	return res, nil
-}
-
-// scanResonances returns the resonance peaks of |Vr/E| of the energised network on a
-// grid from 1 Hz to the lesser of 10 kHz and the transient's Nyquist frequency, by the
-// scan's own peak finder (freqscan.Peaks).
-func scanResonances(st *study.Study, dt float64) []energiseResonance {
-	net := st.Network.Energising()
-	top := math.Min(10e3, 0.5/dt)
-	const n = 6000
-	freqs := make([]float64, n)
-	for i := range freqs {
-		freqs[i] = 1 + (top-1)*float64(i)/(n-1)
-	}
-	pts := freqscan.Scan(nil, net, freqs)
-	var out []energiseResonance
-	for _, p := range freqscan.Peaks(net, pts) {
+	for _, p := range a.Resonances {
 		r := energiseResonance{FHz: p.F, Harmonic: p.F / st.Frequency, Unbounded: p.Unbounded}
 		if !p.Unbounded && !math.IsInf(p.Gain, 0) && !math.IsNaN(p.Gain) {
 			g := p.Gain
@@ -586,210 +377,33 @@ func scanResonances(st *study.Study, dt float64) []energiseResonance {
 		} else {
 			r.Unbounded = true
 		}
-		out = append(out, r)
+		res.Resonances = append(res.Resonances, r)
 	}
-	return out
-}
-
-// transientSpectrum finds the dominant frequencies of the transient v (step dt): the
-// deviation from its mean, Hann-windowed (go-dsp window.Hann), zero-padded to eight
-// times its length and transformed (go-dsp fft.FFTReal); the local maxima of the
-// magnitude above 10 % of the largest (above 2/duration), refined by a parabola through three bins,
-// the four largest by frequency.
-func transientSpectrum(v []float64, dt, f0 float64, res []energiseResonance) energiseSpectrum {
-	sp := energiseSpectrum{Window: "Hann (go-dsp), zero-padded x8"}
-	n := len(v)
-	if n < 8 {
-		return sp
+	res.Spectrum = energiseSpectrum{ResolutionHz: a.Spectrum.Resolution, Window: a.Spectrum.Window}
+	for _, d := range a.Spectrum.Dominant {
+		res.Spectrum.Dominant = append(res.Spectrum.Dominant, energiseFrequency{FHz: d.F, Harmonic: d.F / st.Frequency, Relative: d.Relative, NearestScan: d.NearestScan})
 	}
-	duration := float64(n-1) * dt
-	sp.ResolutionHz = 1 / duration
-	// Long waveforms: decimate to at most 65,536 samples (the spectrum of interest
-	// lies far below the Nyquist frequency of the decimated record).
-	step := 1
-	for n/step > 65536 {
-		step *= 2
-	}
-	m := n / step
-	x := make([]float64, m)
-	var mean float64
-	for i := range x {
-		x[i] = v[i*step]
-		mean += x[i]
-	}
-	mean /= float64(m)
-	for i := range x {
-		x[i] -= mean
-	}
-	window.Apply(x, window.Hann)
-	size := 1
-	for size < 8*m {
-		size *= 2
-	}
-	padded := make([]float64, size)
-	copy(padded, x)
-	spec := fft.FFTReal(padded)
-	mag := make([]float64, size/2)
-	for i := range mag {
-		mag[i] = cmplx.Abs(spec[i])
-	}
-	df := 1 / (float64(size) * dt * float64(step))
-	// Below two resolutions (2/duration) a component is not told from the mean and
-	// the window: those are left out.
-	lowest := max(int(math.Ceil(2*sp.ResolutionHz/df)), 1)
-	type cand struct{ f, a float64 }
-	var cs []cand
-	var top float64
-	for i := lowest; i < len(mag)-1; i++ {
-		if mag[i] > mag[i-1] && mag[i] >= mag[i+1] {
-			a, b, c := mag[i-1], mag[i], mag[i+1]
-			off := 0.0
-			if den := a - 2*b + c; den != 0 {
-				off = 0.5 * (a - c) / den
-			}
-			cs = append(cs, cand{(float64(i) + off) * df, b})
-			top = math.Max(top, b)
-		}
-	}
-	if top == 0 {
-		return sp
-	}
-	kept := cs[:0]
-	for _, c := range cs {
-		if c.a >= 0.1*top {
-			kept = append(kept, cand{c.f, c.a / top})
-		}
-	}
-	cs = kept
-	sort.Slice(cs, func(i, j int) bool { return cs[i].a > cs[j].a })
-	if len(cs) > 4 {
-		cs = cs[:4]
-	}
-	sort.Slice(cs, func(i, j int) bool { return cs[i].f < cs[j].f })
-	for _, c := range cs {
-		d := energiseFrequency{FHz: c.f, Harmonic: c.f / f0, Relative: c.a}
-		best := math.Inf(1)
-		for _, r := range res {
-			if dd := math.Abs(r.FHz - c.f); dd < best {
-				best, d.NearestScan = dd, r.FHz
-			}
-		}
-		sp.Dominant = append(sp.Dominant, d)
-	}
-	return sp
+	return res, nil
 }
 
 // compareEnergise runs every method the study allows on the Bergeron time step (or
 // the study's time_step_us) and returns the largest receiving-end differences.
 func compareEnergise(st *study.Study) (*energiseComparison, error) {
-	e, _ := energisation(st)
-	cmp := &energiseComparison{Peaks: map[string]float64{}, traces: map[string][]float64{}}
-	ber, _, _, err := runMethod(st, "bergeron", e)
+	a, err := analysis.CompareEnergise(st)
 	if err != nil {
 		return nil, err
 	}
-	e.TimeStep = ber.Step
-	cmp.TimeStepUs = ber.Step * 1e6
-	for _, m := range []string{"lattice", "bergeron", "laplace"} {
-		w := ber
-		if m != "bergeron" {
-			var err error
-			w, _, _, err = runMethod(st, m, e)
-			var ue *usageError
-			if errors.As(err, &ue) && strings.Contains(err.Error(), "energise.method") {
-				cmp.Skipped = append(cmp.Skipped, m+": "+err.Error())
-				continue
-			}
-			if err != nil {
-				return nil, err
-			}
-		}
-		cmp.Methods = append(cmp.Methods, m)
-		cmp.traces[m] = w.Receiving
-		cmp.Peaks[m], _ = waves.Peak(w.Receiving)
-	}
-	tau := travelTime(st)
-	freqDep := lineFrequencyDependent(st)
-	for i, a := range cmp.Methods {
-		for _, b := range cmp.Methods[i+1:] {
-			p := comparePair(a, b, cmp.traces[a], cmp.traces[b], ber.Step, tau)
-			p.Cause = pairCause(st, p, freqDep)
-			cmp.Pairs = append(cmp.Pairs, p)
-			cmp.MaxDiffPU = math.Max(cmp.MaxDiffPU, p.MaxDiffPU)
-		}
+	cmp := &energiseComparison{Methods: a.Methods, Skipped: a.Skipped, TimeStepUs: a.Step * 1e6,
+		Peaks: a.Peaks, traces: a.Traces, MaxDiffPU: a.MaxDiff}
+	for _, q := range a.Pairs {
+		p := energisePair{A: q.A, B: q.B, MaxDiffPU: q.MaxDiff, TMs: q.T * 1e3, RMSDiffPU: q.RMSDiff,
+			FrontWindowMs: q.FrontWindow * 1e3, FrontMaxDiffPU: q.FrontMaxDiff, AwayMaxDiffPU: q.AwayMaxDiff,
+			AwayTMs: q.AwayT * 1e3, AwayRMSDiffPU: q.AwayRMS, AwayRMSEarlyPU: q.AwayRMSEarly, AwayRMSLatePU: q.AwayRMSLate,
+			AtWavefronts: q.AtWavefronts}
+		p.Cause = pairCause(st, p, a.FrequencyDependent)
+		cmp.Pairs = append(cmp.Pairs, p)
 	}
 	return cmp, nil
-}
-
-// awayFromFrontsPU: an rms difference away from the wavefronts below this is
-// agreement to screening precision (common practice, no source: 0.01 pu is below
-// the precision a switching overvoltage is read to).
-const awayFromFrontsPU = 0.01
-
-// comparePair measures the difference of two receiving-end waveforms (step dt):
-// near the arrivals of the wavefront at the open end, the odd multiples of the
-// travel time tau (within ±max(10·dt, tau/20), where the methods shape the front
-// their own way), and away from them.
-func comparePair(a, b string, va, vb []float64, dt, tau float64) energisePair {
-	p := energisePair{A: a, B: b}
-	m := min(len(va), len(vb))
-	w := math.Max(10*dt, tau/20)
-	p.FrontWindowMs = w * 1e3
-	var sum, away, early, late float64
-	var nAway, nEarly, nLate int
-	for k := range m {
-		t := float64(k) * dt
-		d := math.Abs(va[k] - vb[k])
-		sum += d * d
-		if d > p.MaxDiffPU {
-			p.MaxDiffPU, p.TMs = d, t*1e3
-		}
-		// nearest odd multiple of tau
-		j := 2*math.Floor(t/(2*tau)) + 1
-		if math.Abs(t-j*tau) < w || math.Abs(t-(j-2)*tau) < w || math.Abs(t-(j+2)*tau) < w {
-			p.FrontMaxDiffPU = math.Max(p.FrontMaxDiffPU, d)
-			continue
-		}
-		away += d * d
-		nAway++
-		if d > p.AwayMaxDiffPU {
-			p.AwayMaxDiffPU, p.AwayTMs = d, t*1e3
-		}
-		if k < m/2 {
-			early += d * d
-			nEarly++
-		} else {
-			late += d * d
-			nLate++
-		}
-	}
-	rms := func(s float64, n int) float64 {
-		if n == 0 {
-			return 0
-		}
-		return math.Sqrt(s / float64(n))
-	}
-	p.RMSDiffPU = rms(sum, m)
-	p.AwayRMSDiffPU, p.AwayRMSEarlyPU, p.AwayRMSLatePU = rms(away, nAway), rms(early, nEarly), rms(late, nLate)
-	p.AtWavefronts = p.AwayRMSDiffPU < awayFromFrontsPU
-	return p
-}
-
-// lineFrequencyDependent reports whether any section's series resistance or
-// inductance at ten times the system frequency differs from its value at the system
-// frequency by more than 1 % (a line from geometry: skin effect and earth return).
-func lineFrequencyDependent(st *study.Study) bool {
-	w := 2 * math.Pi * st.Frequency
-	for _, l := range st.Network.Line {
-		z1, _ := l.At(complex(0, w))
-		z10, _ := l.At(complex(0, 10*w))
-		r1, r10 := real(z1), real(z10)
-		l1, l10 := imag(z1)/w, imag(z10)/(10*w)
-		if math.Abs(r10-r1) > 0.01*math.Abs(r1) || math.Abs(l10-l1) > 0.01*math.Abs(l1) {
-			return true
-		}
-	}
-	return false
 }
 
 // pairCause explains the difference of two methods by its cause.
@@ -805,7 +419,7 @@ func pairCause(st *study.Study, p energisePair, freqDep bool) string {
 		}
 		return fmt.Sprintf("%s: the line's constants vary with frequency (skin effect, earth return) and the %s method holds them at %g Hz, while the Laplace transform damps and slows each frequency of the transient by the line's own resistance and inductance there; the higher frequencies are damped more, so the waveforms drift apart as the run goes on", away, other, st.Frequency)
 	}
-	if lineIsLossy(st) {
+	if analysis.LineIsLossy(st) {
 		losses := map[string]string{
 			"lattice":  "lattice: a distortionless attenuation at one frequency",
 			"bergeron": "Bergeron: the resistance lumped at the ends and middle",

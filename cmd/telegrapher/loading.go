@@ -7,24 +7,23 @@ package main
 //
 // For reuse (the report command):
 //
-//	computeLoading(st, targetPU) (loadingResult, error)  every number, no output
+//	computeLoading(st, targetPU) (loadingResult, error)  analysis.Loading in display units
 //	loadingPlots(r) []*plot.Plot                          the three panels, built by
 //	                                                      report.LoadingProfilePlot,
 //	                                                      report.LoadingReactivePlot,
 //	                                                      report.LoadabilityPlot
 
 import (
+	"context"
 	"flag"
 	"fmt"
 	"io"
 	"math"
-	"math/cmplx"
 	"strings"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
-	"github.com/telegrapher/telegrapher/freqscan"
-	"github.com/telegrapher/telegrapher/propagation"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 )
@@ -59,11 +58,11 @@ line under study is placed on the curve (lines of its make, scaled in length).
 
 --plot F writes one figure (PNG or SVG by extension) with three panels: voltage
 profiles for a few loadings, reactive power against loading, and the loadability curve.`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			asJSON := fs.Bool("json", false, "write the results as one JSON document")
 			plotPath := fs.String("plot", "", "write the figure to `F` (.png or .svg)")
 			target := fs.Float64("target-pu", 1.0, "open-end voltage `X` (pu of the sending end) the receiving-end reactor should give")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				if !(*target > 0) || *target > 2 || math.IsNaN(*target) {
 					return usagef("telegrapher loading: --target-pu: must be > 0 and <= 2, got %g", *target)
 				}
@@ -73,7 +72,7 @@ profiles for a few loadings, reactive power against loading, and the loadability
 				}
 				r, err := computeLoading(st, *target)
 				if err != nil {
-					return usagef("%s: %v", st.File, err)
+					return err // an *analysis.InputError: exit 2
 				}
 				if *plotPath != "" {
 					if err := report.SaveStacked(loadingPlots(r), 8*vg.Inch, 4*vg.Inch, *plotPath); err != nil {
@@ -171,53 +170,21 @@ type loadabilityCurvePt struct {
 	LoadabilitySIL float64 `json:"loadability_sil"`
 }
 
-// computeLoading computes the loading study of st: both ends at 1 pu from 0 to
-// min(2 SIL, p_max), the open end with the receiving reactor for targetPU (> 0), and
-// the loadability. Errors are problems with the study's data.
+// computeLoading computes the loading study of st (analysis.Loading) and shapes it
+// for printing and JSON. Errors are problems with the study's data.
 func computeLoading(st *study.Study, targetPU float64) (loadingResult, error) {
 	var r loadingResult
-	if len(st.Line) == 0 {
-		return r, fmt.Errorf("line: no line sections")
+	a, err := analysis.Loading(st, targetPU)
+	if err != nil {
+		return r, err
 	}
-	omega := 2 * math.Pi * st.Frequency
 	v := st.Voltage
-	s := complex(0, omega)
 	r.Title = st.Title
 	r.FrequencyHz, r.VoltageKV, r.LengthKm = st.Frequency, v/1e3, st.Line.Length()/1e3
-	sil := propagation.SurgeImpedanceLoading(st.Line, v, omega)
-	if !(sil > 0) {
-		return r, fmt.Errorf("line: the surge-impedance loading needs inductance and capacitance > 0")
-	}
-	pmax, dmax, err := propagation.MaxTransfer(st.Line, omega, v)
-	if err != nil {
-		return r, loadingKeyErr("line", err)
-	}
-	r.SILMW, r.PMaxMW, r.DeltaAtPMaxDeg = sil/1e6, pmax/1e6, dmax*180/math.Pi
-
-	// Reactive power absorbed by the study's shunts at each end at 1 pu.
-	var ySendLine, yRecvLine complex128
-	for _, sh := range st.Network.Shunts {
-		y := sh.Admittance(s)
-		q := -v * v * imag(y)
-		if sh.End == freqscan.Sending {
-			r.shuntsSend += q
-			if sh.OnLine {
-				ySendLine += y
-			}
-		} else {
-			r.shuntsRecv += q
-			if sh.OnLine {
-				yRecvLine += y
-			}
-		}
-	}
-
-	powers := propagation.LoadingPowers(sil, pmax)
-	pts, err := propagation.BothEndsHeld(st.Line, omega, v, powers)
-	if err != nil {
-		return r, loadingKeyErr("line", err)
-	}
-	for _, pt := range pts {
+	sil := a.SIL
+	r.SILMW, r.PMaxMW, r.DeltaAtPMaxDeg = sil/1e6, a.PMax/1e6, a.DeltaAtPMax*180/math.Pi
+	r.shuntsSend, r.shuntsRecv = a.ShuntsSend, a.ShuntsRecv
+	for _, pt := range a.Points {
 		r.Points = append(r.Points, loadingPointJSON{
 			PMW: pt.P / 1e6, PSIL: pt.P / sil, DeltaDeg: pt.Delta * 180 / math.Pi,
 			QsMvar: pt.Qs / 1e6, QrMvar: pt.Qr / 1e6,
@@ -226,79 +193,35 @@ func computeLoading(st *study.Study, targetPU float64) (loadingResult, error) {
 			QsNetMvar: (pt.Qs + r.shuntsSend) / 1e6, QrNetMvar: (pt.Qr - r.shuntsRecv) / 1e6,
 		})
 	}
-
-	// Profiles at a few loadings.
-	end := math.Min(2*sil, pmax)
-	var prof []float64
-	for _, k := range []float64{0, 0.5, 1, 1.5, 2} {
-		if k*sil <= end*(1+1e-12) {
-			prof = append(prof, math.Min(k*sil, end))
-		}
-	}
-	if end < 2*sil && end > prof[len(prof)-1]*(1+1e-6) {
-		prof = append(prof, end)
-	}
-	ppts, err := propagation.BothEndsHeld(st.Line, omega, v, prof)
-	if err != nil {
-		return r, loadingKeyErr("line", err)
-	}
-	const nx = 201
-	xs := make([]float64, nx)
-	for i := range xs {
-		xs[i] = st.Line.Length() * float64(i) / (nx - 1)
-	}
-	var buf []complex128
-	for _, pt := range ppts {
-		buf = propagation.VoltageAlong(buf, st.Line, omega, pt.Vr, pt.Ir, xs)
-		lp := loadingProfile{PSIL: pt.P / sil, XKm: make([]float64, nx), VPU: make([]float64, nx)}
-		for i := range xs {
-			lp.XKm[i] = xs[i] / 1e3
-			lp.VPU[i] = cmplx.Abs(buf[i]) / v
+	for _, p := range a.Profiles {
+		lp := loadingProfile{PSIL: p.P / sil, XKm: make([]float64, len(p.X)), VPU: p.V}
+		for i, x := range p.X {
+			lp.XKm[i] = x / 1e3
 		}
 		r.Profiles = append(r.Profiles, lp)
 	}
-
-	// Open receiving end.
-	bare, err := propagation.OpenEnd(st.Line, omega, v, 0, 0)
-	if err != nil {
-		return r, loadingKeyErr("line", err)
-	}
-	with, err := propagation.OpenEnd(st.Line, omega, v, ySendLine, yRecvLine)
-	if err != nil {
-		return r, loadingKeyErr("shunt", err)
-	}
-	resp := st.Network.Energising().At(s)
+	bare, with := a.OpenBare, a.OpenWith
 	r.OpenEnd = openEndJSON{
 		RisePU: bare.Rise, ChargingMvar: bare.Charging / 1e6,
 		RiseWithShuntsPU: with.Rise, ChargingShuntsMvar: with.Charging / 1e6,
-		RiseFromEMFPU: cmplx.Abs(resp.VrE), TargetPU: targetPU,
+		RiseFromEMFPU: a.RiseFromEMF, TargetPU: targetPU,
 	}
-	q0, err := propagation.ReactorForRise(st.Line, omega, v, 0, targetPU)
-	if err != nil {
-		return r, loadingKeyErr("--target-pu", err)
-	}
-	q1, err := propagation.ReactorForRise(st.Line, omega, v, yRecvLine, targetPU)
-	if err != nil {
-		return r, loadingKeyErr("--target-pu", err)
-	}
-	r.OpenEnd.ReactorMvar, r.OpenEnd.ReactorAddedMvar = q0/1e6, q1/1e6
+	r.OpenEnd.ReactorMvar, r.OpenEnd.ReactorAddedMvar = a.Reactor/1e6, a.ReactorAdd/1e6
 	if with.Rise < targetPU {
 		r.Notes = append(r.Notes, fmt.Sprintf("with the study's shunts the open-end voltage (%.4f pu) is already below the target %.4g pu: no reactor is added", with.Rise, targetPU))
 	}
 
 	// Loadability.
-	lim := propagation.DefaultLoadabilityLimits(v)
+	lim := a.Limits
 	la := &r.Loadability
 	la.Method = "Dunlop, Gutman, Marchenko (1979), after St. Clair (1953)"
 	la.VoltageDropPct, la.StabilityMarginPct = lim.VoltageDrop*100, lim.StabilityMargin*100
 	la.SendingSystem = "50 kA at voltage_kv, purely reactive (assumed, as in the paper: no [source])"
 	if !st.Source.Ideal {
-		lim.Zs = complex(st.Source.R, omega*st.Source.L)
 		la.SendingSystem = fmt.Sprintf("[source]: %.4g + j%.4g ohm", real(lim.Zs), imag(lim.Zs))
 	}
 	la.ReceivingSystem = "50 kA at voltage_kv, purely reactive (assumed, as in the paper: no receiving.short_circuit_mva)"
 	if sc := st.Receiving.ShortCircuitVA; sc > 0 {
-		lim.Zr = propagation.TerminalImpedance(v, sc, st.Receiving.XOverR)
 		xr := "purely reactive"
 		if st.Receiving.XOverR > 0 {
 			xr = fmt.Sprintf("X/R %g", st.Receiving.XOverR)
@@ -307,29 +230,15 @@ func computeLoading(st *study.Study, targetPU float64) (loadingResult, error) {
 	}
 	la.Thermal = "not applied (no loading.thermal_rating_a in the study)"
 	if a := st.Loading.ThermalRating; a > 0 {
-		lim.Thermal = math.Sqrt(3) * v * a
 		la.Thermal = fmt.Sprintf("loading.thermal_rating_a %g A: %.0f MW at voltage_kv and unity power factor", a, lim.Thermal/1e6)
 		la.ThermalSIL = lim.Thermal / sil
 	}
-	this, err := propagation.Loadability(st.Line, omega, v, lim)
-	if err != nil {
-		return r, loadingKeyErr("line", err)
-	}
+	this := a.Loadability
 	la.SIL, la.MW = this.Loadability/sil, this.Loadability/1e6
 	la.VoltageDropSIL, la.StabilitySIL = this.VoltageDrop/sil, this.Stability/sil
 	la.LineAngleDeg, la.SystemAngleDeg = this.LineAngle*180/math.Pi, this.SystemAngle*180/math.Pi
 	la.Governs = this.Governs
-	maxLen := math.Max(800e3, 1.25*st.Line.Length())
-	const nl = 80
-	lengths := make([]float64, nl)
-	for i := range lengths {
-		lengths[i] = maxLen * float64(i+1) / nl
-	}
-	curve, err := propagation.LoadabilityCurve(st.Line, omega, v, lim, lengths)
-	if err != nil {
-		return r, loadingKeyErr("line", err)
-	}
-	for _, c := range curve {
+	for _, c := range a.Curve {
 		la.Curve = append(la.Curve, loadabilityCurvePt{
 			LengthKm: c.Length / 1e3, VoltageDropSIL: c.VoltageDrop / c.SIL,
 			StabilitySIL: c.Stability / c.SIL, ThermalSIL: c.Thermal / c.SIL, LoadabilitySIL: c.Loadability / c.SIL,
@@ -340,11 +249,6 @@ func computeLoading(st *study.Study, targetPU float64) (loadingResult, error) {
 		r.Notes = append(r.Notes, "SIL of the sections in cascade uses sqrt(total L / total C); the loadability curve scales every section in proportion")
 	}
 	return r, nil
-}
-
-// loadingKeyErr names the study key (or flag) an error from the library is about.
-func loadingKeyErr(key string, err error) error {
-	return fmt.Errorf("%s: %s", key, strings.TrimPrefix(err.Error(), "propagation: "))
 }
 
 // loadingPlots returns the three panels of the loading figure.

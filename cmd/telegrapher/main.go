@@ -11,12 +11,15 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"os"
+	"os/signal"
 	"strings"
+	"syscall"
 
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
@@ -26,7 +29,20 @@ import (
 var version = "dev"
 
 func main() {
-	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+	os.Exit(runSignals(os.Args[1:], os.Stdout, os.Stderr))
+}
+
+// runSignals is runContext with a context that Ctrl-C and SIGTERM cancel: the command
+// stops at its next check, writes nothing more, and the status is 130. A second
+// Ctrl-C ends the process at once (the default handling is restored).
+func runSignals(args []string, stdout, stderr io.Writer) int {
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	go func() {
+		<-ctx.Done()
+		stop()
+	}()
+	return runContext(ctx, args, stdout, stderr)
 }
 
 // command is one entry of the command table.
@@ -37,7 +53,7 @@ type command struct {
 	long  string // paragraphs for `help COMMAND`
 	// flags declares the command's flags on fs and returns the function that runs it
 	// with the positional arguments.
-	flags func(fs *flag.FlagSet, stdout, stderr io.Writer) func(args []string) error
+	flags func(fs *flag.FlagSet, stdout, stderr io.Writer) func(ctx context.Context, args []string) error
 }
 
 // commandList is every command, in the order of `telegrapher help`; each command's
@@ -77,9 +93,20 @@ func (e *usageError) Error() string { return e.msg }
 // usagef returns a usageError.
 func usagef(format string, a ...any) error { return &usageError{fmt.Sprintf(format, a...)} }
 
-// run is the whole CLI: it returns the exit status (0 success, 2 bad usage or input,
-// 1 any other failure) and never panics on user input.
-func run(args []string, stdout, stderr io.Writer) (status int) {
+// run is the whole CLI without cancellation (runContext with context.Background()).
+func run(args []string, stdout, stderr io.Writer) int {
+	return runContext(context.Background(), args, stdout, stderr)
+}
+
+// statusInterrupted is the exit status of a run whose context was cancelled (an
+// interrupt: 128 + SIGINT).
+const statusInterrupted = 130
+
+// runContext is the whole CLI: it returns the exit status (0 success, 2 bad usage or
+// input, 1 any other failure, 130 when ctx was cancelled, by Ctrl-C or SIGTERM in
+// main) and never panics on user input. A cancelled command writes nothing more to
+// stdout and leaves no output folder.
+func runContext(ctx context.Context, args []string, stdout, stderr io.Writer) (status int) {
 	defer func() {
 		if r := recover(); r != nil {
 			fmt.Fprintf(stderr, "telegrapher: internal error (a bug, please report it): %v\n", r)
@@ -118,7 +145,16 @@ func run(args []string, stdout, stderr io.Writer) (status int) {
 		fmt.Fprintf(stderr, "telegrapher %s: %v\nusage: telegrapher %s %s\n", c.name, err, c.name, c.args)
 		return 2
 	}
-	if err := do(positional); err != nil {
+	if err := do(ctx, positional); err != nil {
+		if ctx.Err() != nil && errors.Is(err, ctx.Err()) {
+			var ie *interruptedError
+			if errors.As(err, &ie) {
+				fmt.Fprintln(stderr, ie.Error())
+			} else {
+				fmt.Fprintf(stderr, "telegrapher %s: interrupted; nothing written\n", c.name)
+			}
+			return statusInterrupted
+		}
 		fmt.Fprintln(stderr, err.Error())
 		var ue *usageError
 		if errors.As(err, &ue) || isInputError(err) {

@@ -23,6 +23,7 @@ package main
 import (
 	"bufio"
 	"bytes"
+	"context"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -443,6 +444,29 @@ func (o *outputFolder) moveIn() error {
 // discard removes the temporary folder and the parent folders newOutputFolder made;
 // the target is untouched. It reports false when the folder was already committed or
 // discarded.
+// interrupted returns err, or, when ctx was cancelled (err is then usually ctx's
+// error), discards the folder under construction and returns an *interruptedError
+// saying nothing was written.
+func (o *outputFolder) interrupted(ctx context.Context, err error) error {
+	if ctx.Err() == nil {
+		return err
+	}
+	if o.discard() {
+		return &interruptedError{what: "nothing written to " + o.target, err: ctx.Err()}
+	}
+	return &interruptedError{what: "after " + o.target + " was written", err: ctx.Err()}
+}
+
+// interruptedError is a command stopped by the cancellation of its context (Ctrl-C,
+// SIGTERM): run exits 130 with its message.
+type interruptedError struct {
+	what string // what the command left: "nothing written to DIR"
+	err  error  // the context's error
+}
+
+func (e *interruptedError) Error() string { return "telegrapher: interrupted; " + e.what }
+func (e *interruptedError) Unwrap() error { return e.err }
+
 func (o *outputFolder) discard() bool {
 	o.mu.Lock()
 	defer o.mu.Unlock()

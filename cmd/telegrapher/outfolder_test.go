@@ -527,7 +527,7 @@ func TestInterruptHelper(t *testing.T) {
 	if args == "" {
 		t.Skip("only run as the child of TestInterruptLeavesNothing")
 	}
-	os.Exit(run(strings.Split(args, "\t"), os.Stdout, os.Stderr))
+	os.Exit(runSignals(strings.Split(args, "\t"), os.Stdout, os.Stderr))
 }
 
 // TestInterruptLeavesNothing: Ctrl-C during a report removes the folder under

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -14,7 +15,7 @@ func TestReportStatusLine(t *testing.T) {
 	text := strings.Replace(remedyReadFile(t, "remedy_switching.toml"), "shots = 100", "shots = 30", 1)
 	st := remedyParse(t, "s.toml", text)
 	var buf bytes.Buffer
-	if _, err := writeReportStatus(st, filepath.Join(t.TempDir(), "r"), false, &statusLine{w: &buf}); err != nil {
+	if _, err := writeReportStatus(context.Background(), st, filepath.Join(t.TempDir(), "r"), false, &statusLine{w: &buf}); err != nil {
 		t.Fatal(err)
 	}
 	got := buf.String()

@@ -2,10 +2,11 @@ package main
 
 // The remedy command: the cheapest change of the study's levers that meets every
 // target (contract: "Remedies"; the search and the cost weights are at the top of
-// remedy_search.go).
+// internal/analysis/remedy_search.go).
 //
-//	computeRemedy(st) (remedyResult, error)   the search: feasible, changes, before and
-//	                                          after, binding target, cost, margins left;
+//	computeRemedyProgress(ctx, st, status)    analysis.Remedy shaped for display:
+//	                                          feasible, changes, before and after,
+//	                                          binding target, cost, margins left;
 //	                                          remedyResult is also the --json document
 //	remedyPlots(r) ([]*plot.Plot, error)      the trade-off plots (report.RemedyResonancePlot:
 //	                                          first resonance against added reactor with the
@@ -14,13 +15,14 @@ package main
 //	                                          target; report.RemedyResistorPlot: u2 against
 //	                                          the pre-insertion resistor)
 //	printRemedy(w, r)                         the text summary
-//	remedyReportPart(st, status)              the report's "remedies" section (with the
+//	remedyReportPart(ctx, st, status)         the report's "remedies" section (with the
 //	                                          plots for the report to write), ok false
 //	                                          when the study has no [targets]
 //
 // computeRemedy returns an input error (exit 2) when the study has no [targets].
 
 import (
+	"context"
 	"flag"
 	"fmt"
 	"io"
@@ -30,6 +32,7 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 	"github.com/telegrapher/telegrapher/freqscan"
@@ -65,15 +68,15 @@ each target; where nothing meets the targets, the closest case and the target th
 binds. --json writes feasible, changes, before, after, binding, cost, margins_left;
 --plot writes the trade-offs (first resonance against reactor rating with the watched
 harmonics marked; u2 against the pre-insertion resistor).`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			asJSON := fs.Bool("json", false, "write the results as one JSON document")
 			plotPath := fs.String("plot", "", "write the trade-off plots to `F` (.png or .svg)")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				st, err := studyArg("remedy", args, stderr, [2]string{"plot", *plotPath})
 				if err != nil {
 					return err
 				}
-				res, err := computeRemedyProgress(st, newStatusLine(stderr))
+				res, err := computeRemedyProgress(ctx, st, newStatusLine(stderr))
 				if err != nil {
 					return err
 				}
@@ -168,118 +171,48 @@ type remedyResult struct {
 	sweepGain   []float64 // largest watched-harmonic gain
 	targetGain  float64
 	chosenMvar  float64 // the proposed rating at that end
-	pir         []remedyPIRSample
+	pir         []analysis.PIRSample
 	chosenOhm   float64
 	targetU2    float64
 }
 
 // computeRemedy searches st's levers for the cheapest change meeting its targets.
-func computeRemedy(st *study.Study) (remedyResult, error) { return computeRemedyProgress(st, nil) }
+func computeRemedy(st *study.Study) (remedyResult, error) {
+	return computeRemedyProgress(context.Background(), st, nil)
+}
 
-func computeRemedyProgress(st *study.Study, status *statusLine) (remedyResult, error) {
+func computeRemedyProgress(ctx context.Context, st *study.Study, status *statusLine) (remedyResult, error) {
 	var res remedyResult
-	spec := st.Remedy()
-	if !spec.Present {
-		return res, usagef("%s: targets: the study has no [targets]; give e.g. [targets] max_open_end_pu = 1.05 and [levers] reactor_mvar_receiving = [0, 300]", st.File)
-	}
-	st = memoLines(st)
-	rs, err := newRemedySearch(st, status)
+	a, err := analysis.Remedy(ctx, st, status)
+	status.Clear()
 	if err != nil {
 		return res, err
 	}
-	defer status.Clear()
+	spec := st.Remedy()
 	tg, lv := spec.Targets, spec.Levers
 	res.Title, res.Caution = st.Title, Caution
-	res.CostWeights = remedyCostWeights{remedyCostPerMvar, remedyCostReactorBay, remedyCostPreinsertion, remedyCostControlled, remedyCostArresters}
+	res.CostWeights = remedyCostWeights{analysis.RemedyCostPerMvar, analysis.RemedyCostReactorBay, analysis.RemedyCostPreinsertion, analysis.RemedyCostControlled, analysis.RemedyCostArresters}
 	res.Targets = remedyTargetsJSON{MaxOpenEndPU: optF(tg.HasOpenEnd, tg.OpenEndPU), MaxGainWatched: optF(tg.HasGainWatched, tg.GainWatched),
 		MaxU2PU: optF(tg.HasU2, tg.U2PU), MinMarginPct: optF(tg.HasMargin, tg.MarginPct)}
-
-	full := func(c remedyCandidate) (remedyEval, remedyFigures, error) {
-		rs.setStage("full evaluations (the study as given, the proposal)")
-		e, err := rs.evalAll(c)
-		if err != nil {
-			return e, remedyFigures{}, err
-		}
-		g, first := remedyWatchedGain(remedyStudy(st, c), rs.freqs)
-		e.figs.Gain, e.figs.FirstResonanceHz = g, first
-		e = rs.judge(c, e.figs)
-		return e, figuresJSON(e.figs, st.Frequency), nil
-	}
-	before, bf, err := full(remedyCandidate{})
-	if err != nil {
-		return res, err
-	}
-	res.Before = bf
-	var chosen remedyEval
-	feasible := false
-	capped := false
-	if before.violation == 0 {
-		chosen, feasible = before, true
+	res.Before, res.After = figuresJSON(a.Before.Figs, st.Frequency), figuresJSON(a.After.Figs, st.Frequency)
+	if a.Before.Violation == 0 {
 		res.Notes = append(res.Notes, "the study as given meets every target: no change is needed")
-	} else {
-		chosen, feasible, capped, err = rs.search()
-		if err != nil {
-			return res, err
-		}
-		if !feasible && !capped {
-			// Which targets no change within the levers can meet, and the cheapest
-			// change that meets all the others.
-			var alt remedyEval
-			var others bool
-			res.Infeasible, alt, others, err = rs.separate()
-			if err != nil {
-				return res, err
-			}
-			if others {
-				chosen = alt
-			}
-		}
 	}
-	// Round the proposal to what a study file would say (0.1 Mvar, 1 ohm) when it
-	// still meets the targets, and evaluate it in full.
-	c := chosen.cand
-	if c != (remedyCandidate{}) {
-		r := c
-		up := func(q float64, rg *study.Range) float64 {
-			if q == 0 || rg == nil {
-				return q
-			}
-			return math.Min(math.Ceil(q/1e5)*1e5, rg.Max)
-		}
-		r.ReactorSending = up(r.ReactorSending, lv.ReactorSending)
-		r.ReactorReceiving = up(r.ReactorReceiving, lv.ReactorReceiving)
-		if rg := lv.Preinsertion; rg != nil && r.Preinsertion > 0 {
-			r.Preinsertion = math.Max(rg.Min, math.Min(rg.Max, math.Round(r.Preinsertion)))
-		}
-		if !feasible {
-			c = r
-		} else if e, _, err := full(r); err == nil && e.violation == 0 {
-			c = r
-		}
+	for _, x := range a.Infeasible {
+		res.Infeasible = append(res.Infeasible, remedyInfeasible{Target: x.Target, Limit: x.Limit, Reachable: x.Reachable,
+			With: changesJSON(x.With, lv), ConflictsWith: x.ConflictsWith, Capped: x.Capped})
 	}
-	after, af, err := full(c)
-	if err != nil {
-		return res, err
-	}
-	if feasible && after.violation > 0 {
-		feasible = false
-	}
-	res.After, res.Feasible = af, feasible
-	if !feasible {
-		res.Binding = after.binding
-		if len(res.Infeasible) > 0 {
-			res.Binding = res.Infeasible[0].Target
-		}
-		if res.Binding == "" {
-			res.Binding = before.binding
-		}
-	}
-	res.Cost = c.cost()
+	c := a.Proposal
+	res.Feasible, res.Binding = a.Feasible, a.Binding
+	res.Cost = c.Cost()
 	res.Changes = changesJSON(c, lv)
-	res.MarginsLeft = marginsLeft(tg, after.figs)
-	res.CandidatesTried, res.SwitchingRuns, res.CandidatesByStage = rs.evals, rs.runs, rs.merged()
-	if capped {
-		res.Notes = append(res.Notes, fmt.Sprintf("the search stopped after %d statistical switching runs: the closest case found is shown", remedyMaxSwitching))
+	res.MarginsLeft = marginsLeft(tg, a.After.Figs)
+	res.CandidatesTried, res.SwitchingRuns = a.Evals, a.Runs
+	for _, b := range a.ByStage {
+		res.CandidatesByStage = append(res.CandidatesByStage, remedyStageCount{Stage: b.Stage, Candidates: b.Candidates})
+	}
+	if a.Capped {
+		res.Notes = append(res.Notes, fmt.Sprintf("the search stopped after %d statistical switching runs: the closest case found is shown", analysis.RemedyMaxSwitching))
 	}
 	if !tg.Switching() && (lv.Preinsertion != nil || lv.Controlled || len(lv.ArrestersV) > 0) {
 		res.Notes = append(res.Notes, "levers preinsertion_ohm, controlled_closing and arresters_kv act on switching overvoltages only; with no switching target they are not used")
@@ -291,7 +224,7 @@ func computeRemedyProgress(st *study.Study, status *statusLine) (remedyResult, e
 		res.Notes = append(res.Notes, "controlled closing: apply it as [switching] controlled_closing = true with controlled_sigma_ms; each pole aims where the voltage across its contacts is zero")
 	}
 	if c.ReactorSending > 0 || c.ReactorReceiving > 0 {
-		res.Notes = append(res.Notes, fmt.Sprintf("to apply: add a [[shunt]] with connection = \"line\", the rating as mvar and q_factor = %d at each end that changes", remedyReactorQ))
+		res.Notes = append(res.Notes, fmt.Sprintf("to apply: add a [[shunt]] with connection = \"line\", the rating as mvar and q_factor = %d at each end that changes", analysis.RemedyReactorQ))
 	}
 
 	// Plot data: the first resonance against the reactor at one end (the other end as
@@ -303,34 +236,39 @@ func computeRemedyProgress(st *study.Study, status *statusLine) (remedyResult, e
 	if res.watchBand == 0 {
 		res.watchBand = freqscan.DefaultWatchBand
 	}
-	if r := lv.ReactorReceiving; r != nil || lv.ReactorSending != nil {
-		end := "receiving"
-		if r == nil {
-			r, end = lv.ReactorSending, "sending"
-		}
-		res.sweepEnd = end
-		const n = 41
-		for i := 0; i < n; i++ {
-			q := r.Max * float64(i) / (n - 1)
-			sc := c
-			if end == "receiving" {
-				sc.ReactorReceiving = q
-			} else {
-				sc.ReactorSending = q
-			}
-			g, first := remedyWatchedGain(remedyStudy(st, sc), rs.freqs)
+	if sw := a.Sweep; sw != nil {
+		res.sweepEnd = sw.End
+		for k, q := range sw.Q {
 			res.sweepMvar = append(res.sweepMvar, q/1e6)
-			res.sweepFirst = append(res.sweepFirst, first/st.Frequency)
-			res.sweepGain = append(res.sweepGain, g)
+			res.sweepFirst = append(res.sweepFirst, sw.First[k]/st.Frequency)
+			res.sweepGain = append(res.sweepGain, sw.Gain[k])
 		}
 		res.chosenMvar = c.ReactorReceiving / 1e6
-		if end == "sending" {
+		if sw.End == "sending" {
 			res.chosenMvar = c.ReactorSending / 1e6
 		}
 	}
-	res.pir = rs.pirSamples[[2]float64{chosen.cand.ReactorSending, chosen.cand.ReactorReceiving}]
+	res.pir = a.PIR
 	res.chosenOhm, res.targetU2, res.targetGain = c.Preinsertion, tg.U2PU, tg.GainWatched
 	return res, nil
+}
+
+// remedyStageCount is how many candidates one stage of the search evaluated.
+type remedyStageCount struct {
+	Stage      string `json:"stage"`
+	Candidates int    `json:"candidates"`
+}
+
+// remedyInfeasible is a target no change within the levers meets: alone (Reachable
+// is then the best value of its measure the search found, With the change giving
+// it), or together with the others (ConflictsWith lists them).
+type remedyInfeasible struct {
+	Target        string        `json:"target"`
+	Limit         float64       `json:"limit"`
+	Reachable     *float64      `json:"reachable,omitempty"`
+	With          remedyChanges `json:"with"`
+	ConflictsWith []string      `json:"conflicts_with,omitempty"`
+	Capped        bool          `json:"search_capped,omitempty"`
 }
 
 func optF(ok bool, v float64) *float64 {
@@ -340,7 +278,7 @@ func optF(ok bool, v float64) *float64 {
 	return &v
 }
 
-func figuresJSON(f remedyFigs, f0 float64) remedyFigures {
+func figuresJSON(f analysis.RemedyFigures, f0 float64) remedyFigures {
 	out := remedyFigures{OpenEndPU: optF(true, f.OpenEnd), GainWatched: optF(true, f.Gain)}
 	if f.FirstResonanceHz > 0 {
 		out.FirstResonanceHz = optF(true, f.FirstResonanceHz)
@@ -354,7 +292,7 @@ func figuresJSON(f remedyFigs, f0 float64) remedyFigures {
 	return out
 }
 
-func changesJSON(c remedyCandidate, lv study.Levers) remedyChanges {
+func changesJSON(c analysis.RemedyCandidate, lv study.Levers) remedyChanges {
 	var ch remedyChanges
 	if c.ReactorSending > 0 {
 		ch.ReactorMvarSending = optF(true, c.ReactorSending/1e6)
@@ -376,7 +314,7 @@ func changesJSON(c remedyCandidate, lv study.Levers) remedyChanges {
 	return ch
 }
 
-func marginsLeft(tg study.Targets, f remedyFigs) map[string]float64 {
+func marginsLeft(tg study.Targets, f analysis.RemedyFigures) map[string]float64 {
 	m := map[string]float64{}
 	if tg.HasOpenEnd {
 		m["max_open_end_pu"] = tg.OpenEndPU - f.OpenEnd
@@ -501,11 +439,11 @@ type remedyFigure struct {
 
 // remedyReportPart returns the report's "remedies" section of st and its plots; ok is
 // false when st has no [targets] (the report then has no such section).
-func remedyReportPart(st *study.Study, status *statusLine) (sec report.Section, figs []remedyFigure, ok bool, err error) {
+func remedyReportPart(ctx context.Context, st *study.Study, status *statusLine) (sec report.Section, figs []remedyFigure, ok bool, err error) {
 	if !st.Remedy().Present {
 		return sec, nil, false, nil
 	}
-	r, err := computeRemedyProgress(st, status)
+	r, err := computeRemedyProgress(ctx, st, status)
 	if err != nil {
 		return sec, nil, true, err
 	}
@@ -617,7 +555,7 @@ func infeasibleWords(x remedyInfeasible) string {
 		s += fmt.Sprintf(" (the best reached is %s, by: %s)", v, strings.Join(with, "; "))
 	}
 	if x.Capped {
-		s += fmt.Sprintf("; the search stopped at its cap of %d statistical switching runs", remedyMaxSwitching)
+		s += fmt.Sprintf("; the search stopped at its cap of %d statistical switching runs", analysis.RemedyMaxSwitching)
 	}
 	return s
 }

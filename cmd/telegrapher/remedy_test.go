@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"fmt"
 	"math"
@@ -12,6 +13,7 @@ import (
 
 	"gonum.org/v1/plot/vg"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 )
@@ -88,7 +90,7 @@ func remedyApply(t *testing.T, text string, ch remedyChanges) string {
 		at string
 	}{{ch.ReactorMvarSending, "sending"}, {ch.ReactorMvarReceiving, "receiving"}} {
 		if r.q != nil {
-			text += fmt.Sprintf("\n[[shunt]]\nname = \"added by hand\"\nat = %q\nconnection = \"line\"\nmvar = %v\nq_factor = %d\n", r.at, *r.q, remedyReactorQ)
+			text += fmt.Sprintf("\n[[shunt]]\nname = \"added by hand\"\nat = %q\nconnection = \"line\"\nmvar = %v\nq_factor = %d\n", r.at, *r.q, analysis.RemedyReactorQ)
 		}
 	}
 	return text
@@ -141,7 +143,7 @@ func TestRemedyMovesFifthHarmonicResonance(t *testing.T) {
 	band := st.Scan.WatchBand
 	lo, hi := 5*(1-band), 5*(1+band)
 	// Built to resonate inside the band (the study's premise, checked by the scan).
-	before, err := computeScan(st)
+	before, err := computeScan(context.Background(), st)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -152,7 +154,7 @@ func TestRemedyMovesFifthHarmonicResonance(t *testing.T) {
 		t.Fatalf("expected a feasible receiving-end reactor, got feasible=%v changes=%+v binding=%q", res.Feasible, res.Changes, res.Binding)
 	}
 	edited := remedyParse(t, "edited.toml", remedyApply(t, remedyWithout(t, text), res.Changes))
-	after, err := computeScan(edited)
+	after, err := computeScan(context.Background(), edited)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -181,7 +183,7 @@ func TestRemedyMovesFifthHarmonicResonance(t *testing.T) {
 	ch := res.Changes
 	ch.ReactorMvarReceiving = &less
 	cheaper := remedyParse(t, "cheaper.toml", remedyApply(t, remedyWithout(t, text), ch))
-	cs, err := computeScan(cheaper)
+	cs, err := computeScan(context.Background(), cheaper)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -204,15 +206,15 @@ func TestRemedyMovesFifthHarmonicResonance(t *testing.T) {
 func TestRemedyControlledClosingLowersU2(t *testing.T) {
 	t.Parallel()
 	st := remedyParse(t, "remedy_switching.toml", remedyReadFile(t, "remedy_switching.toml"))
-	rs, err := newRemedySearch(st, nil)
+	rs, err := analysis.NewRemedySearch(context.Background(), st, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	random, _, err := rs.remedySwitching(st, false)
+	random, _, err := rs.U2(st, false)
 	if err != nil {
 		t.Fatal(err)
 	}
-	controlled, _, err := rs.remedySwitching(st, true)
+	controlled, _, err := rs.U2(st, true)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -359,14 +361,14 @@ func TestRemedyAppliedByHandMeetsTargets(t *testing.T) {
 	want := 0.0
 	for _, q := range []*float64{res.Changes.ReactorMvarSending, res.Changes.ReactorMvarReceiving} {
 		if q != nil {
-			want += remedyCostReactorBay + remedyCostPerMvar**q
+			want += analysis.RemedyCostReactorBay + analysis.RemedyCostPerMvar**q
 		}
 	}
 	if res.Changes.PreinsertionOhm != nil {
-		want += remedyCostPreinsertion
+		want += analysis.RemedyCostPreinsertion
 	}
 	if res.Changes.ArrestersKV != nil {
-		want += remedyCostArresters
+		want += analysis.RemedyCostArresters
 	}
 	if math.Abs(res.Cost-want) > 1e-9 {
 		t.Errorf("cost %g, the documented weights give %g", res.Cost, want)
@@ -418,21 +420,24 @@ func TestRemedyCandidateMatchesEditedStudy(t *testing.T) {
 	t.Parallel()
 	text := remedyReadFile(t, "remedy_switching.toml")
 	st := remedyParse(t, "remedy_switching.toml", text)
-	rs, err := newRemedySearch(st, nil)
+	rs, err := analysis.NewRemedySearch(context.Background(), st, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	c := remedyCandidate{ReactorSending: 40e6, ReactorReceiving: 60e6, Preinsertion: 300, ArresterV: 336e3}
-	cst := remedyStudy(st, c)
-	u2, margin, err := rs.remedySwitching(cst, false)
+	c := analysis.RemedyCandidate{ReactorSending: 40e6, ReactorReceiving: 60e6, Preinsertion: 300, ArresterV: 336e3}
+	cst := analysis.RemedyStudy(st, c)
+	u2, margin, err := rs.U2(cst, false)
 	if err != nil {
 		t.Fatal(err)
 	}
-	open, err := remedyOpenEnd(cst)
+	open, err := analysis.OpenEndRise(cst)
 	if err != nil {
 		t.Fatal(err)
 	}
-	gain, _ := remedyWatchedGain(cst, rs.freqs)
+	gain, _, err := analysis.WatchedGain(context.Background(), cst, rs.Freqs())
+	if err != nil {
+		t.Fatal(err)
+	}
 	edited := remedyParse(t, "edited.toml", remedyApply(t, remedyWithout(t, text), changesJSON(c, st.Remedy().Levers)))
 	sw, err := computeSwitching(edited)
 	if err != nil {
@@ -442,7 +447,7 @@ func TestRemedyCandidateMatchesEditedStudy(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	sc, err := computeScan(edited)
+	sc, err := computeScan(context.Background(), edited)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -490,7 +495,7 @@ func TestRemedyReportPart(t *testing.T) {
 	t.Parallel()
 	text := remedyReadFile(t, "remedy_fifth.toml")
 	st := remedyParse(t, "remedy_fifth.toml", text)
-	sec, figs, ok, err := remedyReportPart(st, nil)
+	sec, figs, ok, err := remedyReportPart(context.Background(), st, nil)
 	if err != nil || !ok {
 		t.Fatalf("ok=%v err=%v", ok, err)
 	}
@@ -511,7 +516,7 @@ func TestRemedyReportPart(t *testing.T) {
 		t.Errorf("non-finite value in the section: %s", where)
 	}
 	// Without [targets] there is no section.
-	if _, _, ok, err := remedyReportPart(remedyParse(t, "plain.toml", remedyWithout(t, text)), nil); ok || err != nil {
+	if _, _, ok, err := remedyReportPart(context.Background(), remedyParse(t, "plain.toml", remedyWithout(t, text)), nil); ok || err != nil {
 		t.Errorf("study without [targets]: ok=%v err=%v", ok, err)
 	}
 }
@@ -522,7 +527,7 @@ func TestRemedyCountsAgreeWithProgress(t *testing.T) {
 	t.Parallel()
 	st := remedyParse(t, "remedy_fifth.toml", remedyReadFile(t, "remedy_fifth.toml"))
 	var buf bytes.Buffer
-	res, err := computeRemedyProgress(st, &statusLine{w: &buf})
+	res, err := computeRemedyProgress(context.Background(), st, &statusLine{w: &buf})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -11,30 +11,31 @@ package main
 //	                                place when complete (batch uses it too)
 //
 // Each part calls the compute function and plot builders of its command (computeScan,
-// computeEnergise, computeLoading, computeSwitching, report.*Plot) so the report shows
-// exactly what the commands show. A part that cannot run for the study (for example
+// computeEnergise, computeLoading, computeSwitchingProgress, report.*Plot: the analysis
+// package's results shaped for display) so the report shows exactly what the commands
+// show. A cancelled context stops the run after the part under way and discards the
+// folder. A part that cannot run for the study (for example
 // switching without zero-sequence data) becomes a section saying why; any other failure
 // fails the whole run, and then nothing is left in place (see outputFolder).
 
 import (
+	"context"
 	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"math"
 	"math/cmplx"
-	"os"
-	"os/signal"
 	"path/filepath"
 	"strconv"
 	"strings"
-	"syscall"
 	"time"
 	"unicode/utf8"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 )
@@ -63,6 +64,7 @@ const (
 
 // reportRun is one report being built.
 type reportRun struct {
+	ctx    context.Context // cancelled: the run stops after the part under way
 	st     *study.Study
 	out    *outputFolder
 	status *statusLine // progress on a terminal; nil draws nothing
@@ -150,10 +152,10 @@ func (rr *reportRun) sweepFigure() (report.Figure, error) {
 // plot, the worst shot's waveforms (plot and COMTRADE), the shots in switching.csv.
 func (rr *reportRun) switchingSection() (report.Section, error) {
 	const id, title = "switching", "Statistical switching (three-phase)"
-	if err := switchingApplicable(rr.st); err != nil {
+	if err := analysis.SwitchingApplicable(rr.st); err != nil {
 		return notRunSection(id, title, err), nil
 	}
-	r, err := computeSwitchingProgress(rr.st, rr.status.Shots())
+	r, err := computeSwitchingProgress(rr.ctx, rr.st, rr.status.Shots())
 	if err != nil {
 		if cannotRun(err) {
 			return notRunSection(id, title, err), nil
@@ -328,10 +330,10 @@ interrupted run changes nothing. telegrapher never deletes what it did not write
   - a file given as DIR, and a batch screening's folder, are refused even with --force.
 Temporary folders .DIR.tmp-N a killed run left beside DIR are removed by the next run
 into the same folder once no running telegrapher holds them (see the README).`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			out := fs.String("out", "", "write the report into folder `DIR` (required)")
 			force := fs.Bool("force", false, "write into DIR even if telegrapher did not make it (overwrites its own file names only)")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				if *out == "" {
 					return usagef("telegrapher report: --out DIR is required\nusage: telegrapher report STUDY --out DIR [--force]")
 				}
@@ -339,7 +341,7 @@ into the same folder once no running telegrapher holds them (see the README).`,
 				if err != nil {
 					return err
 				}
-				doc, err := writeReportStatus(st, *out, *force, newStatusLine(stderr))
+				doc, err := writeReportStatus(ctx, st, *out, *force, newStatusLine(stderr))
 				if err != nil {
 					return err
 				}
@@ -353,23 +355,23 @@ into the same folder once no running telegrapher holds them (see the README).`,
 // writeReport runs every part of st and writes the report folder out (see the report
 // command). Nothing is left behind on failure.
 func writeReport(st *study.Study, out string, force bool) (*report.Document, error) {
-	return writeReportStatus(st, out, force, nil)
+	return writeReportStatus(context.Background(), st, out, force, nil)
 }
 
 // writeReportStatus is writeReport drawing each part's progress on status (nil: none).
-func writeReportStatus(st *study.Study, out string, force bool, status *statusLine) (*report.Document, error) {
+// When ctx is cancelled, the run stops after the part under way, removes the folder
+// under construction and returns an *interruptedError (wrapping ctx's error).
+func writeReportStatus(ctx context.Context, st *study.Study, out string, force bool, status *statusLine) (*report.Document, error) {
 	defer status.Clear()
 	folder, err := newOutputFolder(out, kindReport, force)
 	if err != nil {
 		return nil, err
 	}
 	defer folder.discard() // nothing to do once committed
-	stop := discardOnInterrupt(folder)
-	defer stop()
-	rr := &reportRun{st: st, out: folder, status: status}
+	rr := &reportRun{ctx: ctx, st: st, out: folder, status: status}
 	doc, err := rr.build()
 	if err != nil {
-		return nil, err
+		return nil, folder.interrupted(ctx, err)
 	}
 	page, err := report.HTML(doc)
 	if err != nil {
@@ -385,32 +387,6 @@ func writeReportStatus(st *study.Study, out string, force bool, status *statusLi
 		return nil, err
 	}
 	return doc, nil
-}
-
-// discardOnInterrupt removes the folder under construction when the process is
-// interrupted (Ctrl-C, SIGTERM) and exits with status 130; the returned function ends
-// the watch. An interrupt while the files are being moved into place waits for that
-// to finish (it is quick), so the target is never left half replaced.
-func discardOnInterrupt(o *outputFolder) (stop func()) {
-	ch := make(chan os.Signal, 1)
-	signal.Notify(ch, os.Interrupt, syscall.SIGTERM)
-	done := make(chan struct{})
-	go func() {
-		select {
-		case <-ch:
-			if o.discard() {
-				fmt.Fprintf(os.Stderr, "telegrapher: interrupted; nothing written to %s\n", o.target)
-			} else {
-				fmt.Fprintf(os.Stderr, "telegrapher: interrupted after %s was written\n", o.target)
-			}
-			os.Exit(130)
-		case <-done:
-		}
-	}()
-	return func() {
-		signal.Stop(ch)
-		close(done)
-	}
 }
 
 // reportPart is one part of the report: its name for the status line and the
@@ -431,7 +407,7 @@ var reportParts = []reportPart{
 
 // remedySection is the remedies part, present only when the study has [targets].
 func (rr *reportRun) remedySection() (report.Section, bool, error) {
-	sec, figs, ok, err := remedyReportPart(rr.st, rr.status)
+	sec, figs, ok, err := remedyReportPart(rr.ctx, rr.st, rr.status)
 	if !ok || err != nil {
 		return sec, ok, err
 	}
@@ -457,13 +433,20 @@ func (rr *reportRun) build() (*report.Document, error) {
 	for i, part := range reportParts {
 		rr.status.Stage(fmt.Sprintf("report %d/%d: %s", i+1, len(reportParts)+1, part.name))
 		sec, err := part.build(rr)
+		if err == nil {
+			err = rr.ctx.Err() // a part may have turned the cancellation into "not run"
+		}
 		if err != nil {
 			return nil, err
 		}
 		doc.Sections = append(doc.Sections, sec)
 	}
 	rr.status.Stage(fmt.Sprintf("report %d/%d: remedies", len(reportParts)+1, len(reportParts)+1))
-	if sec, ok, err := rr.remedySection(); err != nil {
+	sec, ok, err := rr.remedySection()
+	if err == nil {
+		err = rr.ctx.Err()
+	}
+	if err != nil {
 		return nil, err
 	} else if ok {
 		doc.Sections = append(doc.Sections, sec)
@@ -555,10 +538,9 @@ func (rr *reportRun) constantsSection() (report.Section, error) {
 }
 
 // energisePeakScreenPU is the open-end energisation peak above which the report flags
-// the result: about 2 pu is the usual ceiling aimed at for EHV line energisation
-// (common practice, no source); a study with switching.siwl_kv gets the real margin in
-// the switching section.
-const energisePeakScreenPU = 2.0
+// the result (analysis.EnergisePeakScreenPU); a study with switching.siwl_kv gets the
+// real margin in the switching section.
+const energisePeakScreenPU = analysis.EnergisePeakScreenPU
 
 // harmonicAt names a harmonic order as the report reads it: "the 5th harmonic" for a
 // whole order, "harmonic order 4.4" otherwise (a fractional order is not an ordinal).
@@ -584,7 +566,7 @@ func harmonicAt(h float64) string {
 // harmonics, the flags, scan.csv and, when the study asks for it, the map.
 func (rr *reportRun) scanSection() (report.Section, error) {
 	const id, title = "scan", "Harmonic scan"
-	res, err := computeScan(rr.st)
+	res, err := computeScan(rr.ctx, rr.st)
 	if err != nil {
 		if cannotRun(err) {
 			return notRunSection(id, title, err), nil
@@ -864,8 +846,8 @@ func (rr *reportRun) loadingSection() (report.Section, error) {
 	const id, title = "loading", "Loading against SIL"
 	r, err := computeLoading(rr.st, 1.0)
 	if err != nil {
-		// computeLoading's errors are problems with the study's data.
-		return notRunSection(id, title, fmt.Errorf("%s: %v", rr.st.File, err)), nil
+		// computeLoading's errors are problems with the study's data (FILE: key: problem).
+		return notRunSection(id, title, err), nil
 	}
 	sec := report.Section{ID: id, Title: title, Verdict: report.Pass, Notes: r.Notes}
 	o, la := r.OpenEnd, r.Loadability

@@ -3,24 +3,25 @@ package main
 // The scan command: voltage magnification and driving-point impedances over frequency,
 // resonance peaks, harmonic screening and the source-strength map.
 //
-//	computeScan(st) (scanResult, error)  -> every number the command shows (the report
-//	                                        command reuses it); scanResult is also the
-//	                                        --json document
+//	computeScan(ctx, st) (scanResult, error) -> analysis.Scan shaped for display (the
+//	                                        report command reuses it); scanResult is
+//	                                        also the --json document
 //	scanPlotData(st, res)                -> report.ScanPlotData for report.ScanPlot
 //	scanMapData(st, res)                 -> report.ScanMapData for report.ScanMapPlot
 //	scanTable(res)                       -> the --csv table (units in column names)
 //	printScan(w, st, res)                -> the terminal summary
 
 import (
+	"context"
 	"flag"
 	"fmt"
 	"io"
 	"math"
-	"math/cmplx"
 	"strings"
 
 	"gonum.org/v1/plot/vg"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 	"github.com/telegrapher/telegrapher/freqscan"
@@ -58,33 +59,33 @@ The model: the source resistance is constant with frequency, inductances and
 capacitances keep their values; per-length constants given directly are constant with
 frequency. An exactly lossless network has unbounded resonances: they are reported as
 "unbounded" (JSON null, listed in "overflow").`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			asJSON := fs.Bool("json", false, "write the results as one JSON document")
 			csvPath := fs.String("csv", "", "write the scan points to this CSV file")
 			plotPath := fs.String("plot", "", "write the gain plot (PNG or SVG by extension)")
 			mapPath := fs.String("map", "", "write the source-strength heat map (PNG or SVG)")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				st, err := studyArg("scan", args, stderr, [2]string{"plot", *plotPath}, [2]string{"map", *mapPath})
 				if err != nil {
 					return err
 				}
-				return runScan(st, stdout, *asJSON, *csvPath, *plotPath, *mapPath)
+				return runScan(ctx, st, stdout, *asJSON, *csvPath, *plotPath, *mapPath)
 			}
 		},
 	}
 }()
 
-func runScan(st *study.Study, stdout io.Writer, asJSON bool, csvPath, plotPath, mapPath string) error {
-	res, err := computeScan(st)
+func runScan(ctx context.Context, st *study.Study, stdout io.Writer, asJSON bool, csvPath, plotPath, mapPath string) error {
+	res, err := computeScan(ctx, st)
 	if err != nil {
 		return err
 	}
 	if mapPath != "" && res.SourceStrength == nil {
-		m, err := scanStrength(st, &res, true)
+		m, err := analysis.SourceStrength(ctx, st)
 		if err != nil {
 			return err
 		}
-		res.SourceStrength = m
+		res.SourceStrength = strengthResult(st, &res, m)
 	}
 	if csvPath != "" {
 		t, err := scanTable(res)
@@ -243,23 +244,17 @@ type scanStrengthFirst struct {
 	None            bool    `json:"none,omitempty"` // no resonance within the band
 }
 
-// mapColumns is the number of frequencies of the source-strength map.
-const mapColumns = 500
-
-// computeScan scans the study's positive-sequence network (and the zero-sequence one
-// when the study has it), finds the resonances, screens the harmonics and, when the
-// study sets scan.short_circuit_mva_range, computes the source-strength map.
-func computeScan(st *study.Study) (scanResult, error) {
-	sc := st.Scan
-	if !(sc.FMin > 0 && sc.FMax > sc.FMin) || sc.Points < 2 {
-		return scanResult{}, usagef("%s: scan: the grid needs 0 < f_min_hz < f_max_hz and points >= 2, got %g, %g, %d", st.File, sc.FMin, sc.FMax, sc.Points)
+// computeScan scans the study (analysis.Scan) and shapes the result for printing and
+// JSON.
+func computeScan(ctx context.Context, st *study.Study) (scanResult, error) {
+	a, err := analysis.Scan(ctx, st)
+	if err != nil {
+		return scanResult{}, err
 	}
-	var freqs []float64
+	sc := st.Scan
 	grid := "linear"
-	if sc.Log {
-		freqs, grid = freqscan.LogGrid(nil, sc.FMin, sc.FMax, sc.Points), "log"
-	} else {
-		freqs = freqscan.LinearGrid(nil, sc.FMin, sc.FMax, sc.Points)
+	if a.Log {
+		grid = "log"
 	}
 	f0 := st.Frequency
 	res := scanResult{
@@ -268,24 +263,17 @@ func computeScan(st *study.Study) (scanResult, error) {
 		PlanningSource: "IEC TR 61000-3-6 indicative HV-EHV planning levels (from memory) unless scan.planning_pct sets them",
 	}
 	res.Elements, res.LeftOut = scanElements(st, st.Network, false), scanLeftOut(st)
-	res.pos = freqscan.Scan(nil, st.Network, freqs)
-	res.posPeaks = freqscan.Peaks(st.Network, res.pos)
-	p := sequenceResult(st.Network, res.pos, res.posPeaks, f0)
+	res.pos, res.posPeaks = a.Positive.Points, a.Positive.Peaks
+	p := sequenceResult(a.Positive, f0)
 	res.Points, res.Peaks, res.ImpedanceResonances = p.Points, p.Peaks, p.ImpedanceResonances
 	res.scanSequence = p
-	var zeroNet *freqscan.Network
-	if st.ZeroNetwork != nil {
-		zeroNet = st.ZeroNetwork
-		res.zero = freqscan.Scan(nil, *zeroNet, freqs)
-		res.zeroPeaks = freqscan.Peaks(*zeroNet, res.zero)
-		z := sequenceResult(*zeroNet, res.zero, res.zeroPeaks, f0)
-		z.Elements = scanElements(st, *zeroNet, true)
+	if a.Zero != nil {
+		res.zero, res.zeroPeaks = a.Zero.Points, a.Zero.Peaks
+		z := sequenceResult(*a.Zero, f0)
+		z.Elements = scanElements(st, a.Zero.Network, true)
 		res.ZeroSequence = &z
 	}
-	res.screen = freqscan.Screen(st.Network, res.pos, res.posPeaks, zeroNet, res.zero, res.zeroPeaks, freqscan.ScreenSettings{
-		Fundamental: f0, FMax: sc.FMax, Watch: sc.WatchHarmonics, GainLimit: sc.GainLimit,
-		WatchBand: sc.WatchBand, BackgroundPct: sc.BackgroundPct, PlanningPct: sc.PlanningPct,
-	})
+	res.screen = a.Screen
 	res.GainLimit = res.screen.GainLimit
 	res.WatchBandPct = res.screen.WatchBand * 100
 	res.WatchHarmonics = res.screen.Watch
@@ -303,12 +291,8 @@ func computeScan(st *study.Study) (scanResult, error) {
 		res.Harmonics = append(res.Harmonics, h)
 	}
 	res.Flags = scanFlags(res.screen, f0)
-	if sc.ShortCircuitRange[1] > 0 {
-		m, err := scanStrength(st, &res, false)
-		if err != nil {
-			return scanResult{}, err
-		}
-		res.SourceStrength = m
+	if a.Strength != nil {
+		res.SourceStrength = strengthResult(st, &res, a.Strength)
 	}
 	return res, nil
 }
@@ -413,20 +397,20 @@ func scanLeftOut(st *study.Study) []string {
 	return out
 }
 
-func sequenceResult(n freqscan.Network, pts []freqscan.Point, peaks []freqscan.Peak, f0 float64) scanSequence {
+func sequenceResult(a analysis.Sequence, f0 float64) scanSequence {
 	var s scanSequence
-	s.Points = make([]scanPoint, len(pts))
-	for i, p := range pts {
+	s.Points = make([]scanPoint, len(a.Points))
+	for i, p := range a.Points {
 		s.Points[i] = scanPoint{FHz: p.F, Harmonic: p.F / f0, Gain: p.Gain, GainLine: p.GainLine, ZInOhm: p.ZIn,
 			GainSending: p.GainSending, ZSendingOhm: p.ZSending, ZRecvOhm: p.ZReceiving}
 	}
 	s.Peaks = []scanPeak{}
-	for _, p := range peaks {
+	for _, p := range a.Peaks {
 		s.Peaks = append(s.Peaks, scanPeak{FHz: p.F, Harmonic: p.F / f0, Gain: p.Gain, Unbounded: p.Unbounded,
 			BandwidthHz: p.Bandwidth, FLowHz: p.FLow, FHighHz: p.FHigh, Q: p.Q})
 	}
 	s.ImpedanceResonances = []scanZRes{}
-	for _, r := range freqscan.ImpedanceResonances(n, pts) {
+	for _, r := range a.ZRes {
 		kind := "series"
 		if r.Parallel {
 			kind = "parallel"
@@ -476,77 +460,23 @@ func scanFlags(sc freqscan.Screening, f0 float64) []string {
 	return flags
 }
 
-// scanStrength computes the source-strength map. Without scan.short_circuit_mva_range
-// (fallback set, for --map) it spans 0.25 to 4 times the study's short-circuit level.
-func scanStrength(st *study.Study, res *scanResult, fallback bool) (*scanStrengthMap, error) {
-	f0, v := st.Frequency, st.Voltage
-	lo, hi := st.Scan.ShortCircuitRange[0], st.Scan.ShortCircuitRange[1]
-	steps := st.Scan.ShortCircuitSteps
-	if hi == 0 {
-		sc := st.Source.ShortCircuitVA
-		if sc == 0 && !st.Network.Source.Ideal() {
-			z := cmplx.Abs(st.Network.Source.Impedance(complex(0, 2*math.Pi*f0)))
-			sc = v * v / z
-		}
-		if sc == 0 {
-			return nil, usagef("%s: scan.short_circuit_mva_range: --map needs a range, or a [source] to span; the study has an ideal source", st.File)
-		}
-		lo, hi = sc/4, sc*4
-	}
-	if steps < 2 {
-		steps = 25
-	}
-	if !(lo > 0 && hi > lo) {
-		return nil, usagef("%s: scan.short_circuit_mva_range: needs 0 < min < max, got [%g, %g]", st.File, lo/1e6, hi/1e6)
-	}
-	xr := st.Source.XOverR
-	if xr == 0 {
-		src := st.Network.Source
-		switch {
-		case src.R > 0:
-			xr = 2 * math.Pi * f0 * src.L / src.R
-		default:
-			xr = math.Inf(1) // ideal or purely inductive source: keep it inductive
-		}
-	}
-	if !(xr > 0) {
-		return nil, usagef("%s: source: the source-strength map needs an inductive source (X/R > 0)", st.File)
-	}
-	n := min(mapColumns, st.Scan.Points)
-	var freqs []float64
-	if st.Scan.Log {
-		freqs = freqscan.LogGrid(nil, st.Scan.FMin, st.Scan.FMax, n)
-	} else {
-		freqs = freqscan.LinearGrid(nil, st.Scan.FMin, st.Scan.FMax, n)
-	}
-	// The first resonance needs the full grid's resolution: scan each level on the
-	// study grid for the peak, then the coarse grid for the map.
-	m := freqscan.SourceStrength(st.Network, v, xr, f0, lo, hi, steps, freqs)
-	out := &scanStrengthMap{XOverR: xr, MapFreqHz: freqs, MapGain: m.Gain}
-	var full []float64
-	if st.Scan.Log {
-		full = freqscan.LogGrid(nil, st.Scan.FMin, st.Scan.FMax, st.Scan.Points)
-	} else {
-		full = freqscan.LinearGrid(nil, st.Scan.FMin, st.Scan.FMax, st.Scan.Points)
-	}
-	var pts []freqscan.Point
-	for i, sc := range m.ShortCircuitVA {
-		nn := st.Network
-		nn.Source = m.Source[i]
-		pts = freqscan.Scan(pts, nn, full)
+// strengthResult shapes the source-strength map for printing and JSON (and keeps the
+// library map in res for the plot).
+func strengthResult(st *study.Study, res *scanResult, m *analysis.StrengthMap) *scanStrengthMap {
+	f0 := st.Frequency
+	out := &scanStrengthMap{XOverR: m.XOverR, MapFreqHz: m.Freqs, MapGain: m.Map.Gain}
+	for i, sc := range m.Map.ShortCircuitVA {
 		first := scanStrengthFirst{ShortCircuitMVA: sc / 1e6, None: true}
-		if pk, ok := freqscan.FirstResonance(freqscan.Peaks(nn, pts)); ok {
-			m.First[i] = pk
+		if m.Found[i] {
+			pk := m.Map.First[i]
 			first = scanStrengthFirst{ShortCircuitMVA: sc / 1e6, FHz: pk.F, Harmonic: pk.F / f0,
 				Gain: pk.Gain, Unbounded: pk.Unbounded}
-		} else {
-			m.First[i] = freqscan.Peak{}
 		}
 		out.ShortCircuitMVA = append(out.ShortCircuitMVA, sc/1e6)
 		out.First = append(out.First, first)
 	}
-	res.strength = &m
-	return out, nil
+	res.strength = &m.Map
+	return out
 }
 
 // scanTable is the --csv table: one row per frequency, units in the column names, the

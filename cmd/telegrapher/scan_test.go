@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"fmt"
 	"math"
@@ -277,7 +278,7 @@ func TestScanBandGainCoarseGrid(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	res, err := computeScan(st)
+	res, err := computeScan(context.Background(), st)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -370,7 +371,7 @@ func TestScanFarSystemAndNeutralReactor(t *testing.T) {
 					t.Errorf("%.6g Hz: zero-sequence gain %.12g, phase domain %.12g", r[0], zero[i].Gain, r[c.colZero])
 				}
 			}
-			res, err := computeScan(st)
+			res, err := computeScan(context.Background(), st)
 			if err != nil {
 				t.Fatal(err)
 			}

@@ -18,6 +18,7 @@ import (
 	"math"
 	"math/cmplx"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 	"github.com/telegrapher/telegrapher/propagation"
@@ -50,19 +51,16 @@ type sequenceOut struct {
 	Zero     perKm `json:"zero"`
 }
 
-// constantsPerKm evaluates c at f (Hz) on the jω axis.
+// constantsPerKm evaluates c at f (Hz) on the jω axis (analysis.ConstantsAt), per km.
 func constantsPerKm(c propagation.Constants, f float64) perKm {
-	w := 2 * math.Pi * f
-	l := propagation.Line{Length: 1, Constants: c}
-	z, y := c.At(complex(0, w))
-	gamma, zc := l.GammaZc(complex(0, w))
-	v := 0.0
-	if imag(gamma) > 0 {
-		v = w / imag(gamma) / 1e3
-	}
+	return perKmOf(analysis.ConstantsAt(c, f))
+}
+
+// perKmOf converts per-metre constants to the display units.
+func perKmOf(p analysis.PerLength) perKm {
 	return perKm{
-		R: real(z) * 1e3, L: imag(z) / w * 1e6, C: imag(y) / w * 1e12, G: real(y) * 1e9,
-		Zc: zc, Gamma: gamma * 1e3, Alpha: real(gamma) * 1e3, Velocity: v,
+		R: p.R * 1e3, L: p.L * 1e6, C: p.C * 1e12, G: p.G * 1e9,
+		Zc: p.Zc, Gamma: p.Gamma * 1e3, Alpha: real(p.Gamma) * 1e3, Velocity: p.Velocity / 1e3,
 	}
 }
 
@@ -108,31 +106,17 @@ func sweepFrequencies(fmin, fmax float64, n int) []float64 {
 // computeSweep evaluates every section's positive- and (where given) zero-sequence
 // constants at freqs (Hz).
 func computeSweep(st *study.Study, freqs []float64) (sweepResult, error) {
-	if len(st.Line) == 0 {
-		return sweepResult{}, fmt.Errorf("%s: the study has no line", st.File)
+	secs, err := analysis.Sweep(st, freqs)
+	if err != nil {
+		return sweepResult{}, err
 	}
 	res := sweepResult{FreqHz: freqs}
-	for i, l := range st.Line {
-		sec := sweepSection{Name: l.Name}
-		_, sec.Geometry = l.Constants.(propagation.SequenceConstants)
-		seqs := []struct {
-			name string
-			c    propagation.Constants
-		}{{"positive", l.Constants}}
-		if i < len(st.Zero) {
-			seqs = append(seqs, struct {
-				name string
-				c    propagation.Constants
-			}{"zero", st.Zero[i].Constants})
-		}
-		for _, sq := range seqs {
-			out := sweepSequence{Name: sq.name, Points: make([]perKm, len(freqs))}
-			for k, f := range freqs {
-				p := constantsPerKm(sq.c, f)
-				if cmplx.IsNaN(p.Gamma) || cmplx.IsNaN(p.Zc) || math.IsNaN(p.R) {
-					return sweepResult{}, fmt.Errorf("internal error: non-finite %s-sequence constants at %g Hz", sq.name, f)
-				}
-				out.Points[k] = p
+	for _, a := range secs {
+		sec := sweepSection{Name: a.Name, Geometry: a.Geometry}
+		for _, sq := range a.Sequences {
+			out := sweepSequence{Name: sq.Name, Points: make([]perKm, len(sq.Points))}
+			for k, p := range sq.Points {
+				out.Points[k] = perKmOf(p)
 			}
 			sec.Sequences = append(sec.Sequences, out)
 		}

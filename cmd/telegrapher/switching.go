@@ -2,9 +2,8 @@ package main
 
 // The switching command: three-phase statistical energisation and reclosing.
 //
-//	switchingApplicable(st)        nil, or the input error saying why the study cannot
-//	                               run (no zero-sequence data)
-//	computeSwitching(st)           every shot, the statistics (IEC 60071-2 phase-peak and
+//	computeSwitching(st)           analysis.Switching shaped for display: every shot,
+//	                               the statistics (IEC 60071-2 phase-peak and
 //	                               case-peak, IEC 60071-1 base and kV), the margin to
 //	                               switching.siwl_kv, with and without arresters when the
 //	                               study has them, and the worst shot's three-phase
@@ -19,17 +18,16 @@ package main
 //	printSwitching(w, r)           the text summary
 
 import (
-	"errors"
+	"context"
 	"flag"
 	"fmt"
 	"io"
 	"math"
-	"strings"
-	"sync/atomic"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
+	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 	"github.com/telegrapher/telegrapher/waves"
@@ -75,17 +73,17 @@ metal-oxide curve) or vi_ka_kv = [[kA, kV], ...].
 --json writes shots, u2_pu, ut_pu, u2_kv, ut_kv, u2_fit_pu, case_u2_pu, case_ut_pu,
 max_pu, mean_pu, sigma_pu, phase_peaks_pu (signed, EMF base) and margin_pct; --plot
 writes the distribution on a normal-probability scale and the worst shot's waveforms.`,
-		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func([]string) error {
+		flags: func(fs *flag.FlagSet, stdout, stderr io.Writer) func(context.Context, []string) error {
 			asJSON := fs.Bool("json", false, "write the results as one JSON document")
 			plotPath := fs.String("plot", "", "write the distribution and the worst shot to `F` (.png or .svg)")
-			return func(args []string) error {
+			return func(ctx context.Context, args []string) error {
 				st, err := studyArg("switching", args, stderr, [2]string{"plot", *plotPath})
 				if err != nil {
 					return err
 				}
 				status := newStatusLine(stderr)
 				status.Stage("switching")
-				res, err := computeSwitchingProgress(st, status.Shots())
+				res, err := computeSwitchingProgress(ctx, st, status.Shots())
 				status.Clear()
 				if err != nil {
 					return err
@@ -200,230 +198,70 @@ type switchingResult struct {
 	Worst *waves.ThreePhaseWave `json:"-"` // the worst shot's waveforms, pu of BaseEMFKV
 }
 
-// switchingApplicable returns nil when the study can run the switching study, or an
-// input error (exit 2) saying why not.
-func switchingApplicable(st *study.Study) error {
-	if len(st.Zero) == 0 {
-		return usagef("%s: line: switching needs zero-sequence data: give line.r0_ohm_per_km, l0_mh_per_km (or x0_ohm_per_km) and c0_nf_per_km (or b0_us_per_km), or [line.geometry]", st.File)
-	}
-	return nil
-}
-
-// switchingSetup builds the three-phase circuit (without its arresters, returned
-// apart) and the simulation settings of st on the modal line ml, as every switching
-// computation uses them.
-func switchingSetup(st *study.Study, ml waves.ModalLine) (waves.ThreePhase, waves.SwitchingSettings, []waves.Arrester) {
-	set := st.Switching
-	opt := st.SwitchingOptions()
-	x0 := st.Source.X0OverX1
-	if x0 == 0 {
-		x0 = 1
-	}
-	omega := 2 * math.Pi * st.Frequency
-	net := waves.ThreePhase{
-		Omega: omega, EMFPeak: st.Voltage * math.Sqrt2 / math.Sqrt(3), Line: ml,
-		SourceR: st.Network.Source.R, SourceL: st.Network.Source.L, X0OverX1: x0,
-		Shunts: st.Network.Shunts, NeutralL: opt.NeutralReactorL,
-	}
-	ws := waves.SwitchingSettings{
-		Shots: set.Shots, Seed: uint64(set.Seed), HasCloseDeg: set.HasCloseDeg, CloseDeg: set.CloseDeg,
-		PoleSigma: set.PoleSigma, TrappedPU: set.TrappedPU, Preinsertion: set.Preinsertion,
-		InsertTime: set.InsertTime, Duration: set.Duration, TimeStep: set.TimeStep,
-		Controlled: opt.Controlled, ControlledSigma: opt.ControlledSigma, DeadTime: opt.DeadTime,
-	}
-	if ws.Preinsertion == 0 {
-		ws.InsertTime = 0
-	}
-	var arr []waves.Arrester
-	for _, a := range opt.Arresters {
-		at := 1
-		if a.At == "sending" {
-			at = 0
-		}
-		arr = append(arr, waves.Arrester{Name: a.Name, At: at, VI: a.VI})
-	}
-	return net, ws, arr
-}
-
 // computeSwitching runs the statistical switching study of st.
 func computeSwitching(st *study.Study) (switchingResult, error) {
-	return computeSwitchingProgress(st, nil)
+	return computeSwitchingProgress(context.Background(), st, nil)
 }
 
-func computeSwitchingProgress(st *study.Study, progress func(done, total int, pass string)) (switchingResult, error) {
+// computeSwitchingProgress runs analysis.Switching and shapes its result for printing
+// and JSON.
+func computeSwitchingProgress(ctx context.Context, st *study.Study, progress analysis.SwitchingProgress) (switchingResult, error) {
 	var res switchingResult
-	if err := switchingApplicable(st); err != nil {
+	a, err := analysis.Switching(ctx, st, progress)
+	if err != nil {
 		return res, err
 	}
 	set := st.Switching
-	opt := st.SwitchingOptions()
-	if set.SIWL > 0 && st.Us <= 245e3 {
-		return res, usagef("%s: switching.siwl_kv: switching impulse withstand levels belong to range II (us_kv > 245); this study has us_kv = %g", st.File, st.Us/1e3)
+	baseIEC := a.BaseIEC
+	bare := switchingFiguresOf(a.Bare, baseIEC)
+	f := bare
+	if a.WithArresters {
+		f = switchingFiguresOf(a.Figures, baseIEC)
+		res.WithoutArresters = bare
 	}
-	omega := 2 * math.Pi * st.Frequency
-	ml, err := waves.NewModalLine(st.Line, st.Zero, omega)
-	if err != nil {
-		return res, usagef("%s: line: %v", st.File, err)
-	}
-	net, ws, arr := switchingSetup(st, ml)
-	// Progress counts shots, once per pass: the shots run a second time with the
-	// arresters when the study has them.
-	var done atomic.Int64
-	pass := ""
-	if len(arr) > 0 {
-		pass = "without arresters"
-	}
-	prog := func(int) {
-		if progress != nil {
-			progress(int(done.Add(1)), set.Shots, pass)
-		}
-	}
-	toIEC := st.Voltage / st.Us
-	baseIEC := st.Us * math.Sqrt2 / math.Sqrt(3)
-	run := func(n waves.ThreePhase) (*waves.SwitchingSimulator, *waves.SwitchingResult, *switchingFigures, error) {
-		sim, err := waves.NewSwitchingSimulator(n, ws)
-		if err != nil {
-			msg := strings.TrimPrefix(err.Error(), "switching: ")
-			key := "switching"
-			switch {
-			case errors.Is(err, waves.ErrNoConvergence):
-				key = "switching.arrester"
-			case strings.Contains(msg, "time step"):
-				key = "switching.time_step_us"
-			case strings.Contains(msg, "samples"):
-				key = "switching.duration_ms"
-			case strings.Contains(msg, "neutral reactor at the sending"):
-				key = "switching.neutral_reactor_sending_ohm"
-			case strings.Contains(msg, "neutral reactor at the receiving"):
-				key = "switching.neutral_reactor_receiving_ohm"
-			case strings.Contains(msg, "arrester"):
-				key = "switching.arrester"
-			}
-			return nil, nil, nil, usagef("%s: %s: %s", st.File, key, msg)
-		}
-		r, err := waves.Switching(n, ws, prog)
-		if errors.Is(err, waves.ErrNoConvergence) {
-			return nil, nil, nil, usagef("%s: switching.arrester: %v", st.File, err)
-		}
-		if err != nil {
-			return nil, nil, nil, err
-		}
-		f, err := switchingFiguresOf(r.Shots, toIEC, baseIEC, set, len(n.Arresters) == 0)
-		return sim, r, f, err
-	}
-	simBare, rBare, fBare, err := run(net)
-	if err != nil {
-		return res, err
-	}
-	sim, r, f := simBare, rBare, fBare
-	if len(arr) > 0 {
-		net.Arresters = arr
-		pass = "with arresters"
-		done.Store(0)
-		sim, r, f, err = run(net)
-		if err != nil {
-			return res, err
-		}
-		res.WithoutArresters = fBare
-	}
-	res.switchingFigures, res.Bare = *f, fBare
-	res.Shots = set.Shots
+	res.switchingFigures, res.Bare = *f, bare
+	res.Shots = a.Shots
 	res.Title, res.Seed = st.Title, set.Seed
-	res.BaseIECKV, res.BaseEMFKV, res.UsKV = baseIEC/1e3, net.EMFPeak/1e3, st.Us/1e3
+	res.BaseIECKV, res.BaseEMFKV, res.UsKV = baseIEC/1e3, a.BaseEMF/1e3, st.Us/1e3
 	res.SIWLKV, res.Ks, res.Kcd = set.SIWL/1e3, set.Ks, set.Kcd
 	res.PreinsertionOhm = set.Preinsertion
 	if set.Preinsertion > 0 {
 		res.PreinsertionMs = set.InsertTime * 1e3
 	}
-	res.TimeStepUs, res.ModalEvalHz = r.Step*1e6, ml.EvalHz
-	res.Notes = append(res.Notes, r.Notes...)
-	res.Notes = append(res.Notes,
-		fmt.Sprintf("statistics: IEC 60071-2 phase-peak method (u2 = 98th percentile of the %d absolute phase peaks, linear interpolation; ut = 1.25 u2 - 0.25) and case-peak method (ut = 1.13 u2 - 0.13), per unit of Us*sqrt(2)/sqrt(3) = %.1f kV", 3*set.Shots, baseIEC/1e3),
-		"pole closing instants are rounded to the time step; duration counted from the last pole's last contact (resistor bypass included)")
-	if ws.Controlled {
-		aim := "where the voltage across its contacts is zero"
-		if ws.DeadTime > 0 && ws.TrappedPU != [3]float64{} {
-			aim = "at the least voltage across its contacts (EMF minus the ringing line-side voltage the dead time leaves) within two cycles of the command, over its scatter"
-		}
-		res.Notes = append(res.Notes, fmt.Sprintf("controlled closing: each pole aims %s, scattered by %g ms (normal, truncated at 3 sigma), instead of random closing", aim, ws.ControlledSigma*1e3))
+	res.TimeStepUs, res.ModalEvalHz = a.Step*1e6, a.EvalHz
+	res.Notes = a.Notes
+	for _, l := range a.Arresters {
+		res.Arresters = append(res.Arresters, switchingArrester{Name: l.Spec.Name, At: l.Spec.At, RatedKV: l.Spec.RatedV / 1e3, UpsKV: l.Ups / 1e3, UpsKA: l.Current / 1e3})
 	}
-	// Switching coordination current: 2 kA above 362 kV, 1 kA below (IEC 60099-5, from memory).
-	ka := 1.0
-	if st.Us > 362e3 {
-		ka = 2.0
-	}
-	for _, a := range opt.Arresters {
-		ups, err := waves.SwitchingProtectiveLevel(a.VI, ka*1e3)
-		if err != nil {
-			return res, usagef("%s: switching.arrester: %v", st.File, err)
-		}
-		res.Arresters = append(res.Arresters, switchingArrester{Name: a.Name, At: a.At, RatedKV: a.RatedV / 1e3, UpsKV: ups / 1e3, UpsKA: ka})
-	}
-	if len(res.Arresters) > 0 {
-		ups := math.Inf(1)
-		for _, a := range res.Arresters {
-			ups = math.Min(ups, a.UpsKV)
-		}
-		res.KcdFigure = waves.KcdPhasePeak(ups / fBare.U2KV)
-		if set.SIWL > 0 {
-			m := waves.MarginPct(set.SIWL, set.Ks, res.KcdFigure, ups*1e3)
-			res.MarginArresterPct = &m
-		}
-		res.Notes = append(res.Notes, fmt.Sprintf("with arresters: Ups = %.0f kV at %.0f kA; IEC 60071-2 Fig. 6 (phase-peak, approximate reading) gives kcd = %.3f for Ups/u2 = %.2f (the margin uses kcd = %.3f as given)", ups, ka, res.KcdFigure, ups/fBare.U2KV, set.Kcd))
-	}
-	// Without arresters the simulator's own notes say the results are unprotected.
-	// Worst shot: the largest case peak of the study as given, simulated again with its
-	// waveforms recorded.
-	worst, wv := 0, -1.0
-	for i, sh := range r.Shots {
-		for k := 0; k < 3; k++ {
-			if a := math.Abs(sh.Peak[k]); a > wv {
-				worst, wv = i, a
-			}
-		}
-	}
-	shot, wave, err := sim.Shot(r.Shots[worst].ShotSpec, true)
-	if err != nil {
-		return res, err
-	}
-	res.Worst = wave
-	res.WorstShot = switchingWorst{Index: worst, CloseDeg: math.Mod(shot.CloseDeg, 360), PeakPU: shot.Peak}
+	res.KcdFigure, res.MarginArresterPct = a.KcdFigure, a.MarginArrester
+	shot := a.WorstShot
+	res.Worst = a.WorstWave
+	res.WorstShot = switchingWorst{Index: a.Worst, CloseDeg: math.Mod(shot.CloseDeg, 360), PeakPU: shot.Peak}
 	for k := 0; k < 3; k++ {
 		res.WorstShot.PoleCloseMs[k] = shot.Offset[k] * 1e3
 	}
+	ws := a.Settings
 	res.Reclosing = switchingReclosing{DeadTimeMs: ws.DeadTime * 1e3, TrappedPU: ws.TrappedPU}
-	res.Reclosing.RingGroundHz, res.Reclosing.RingAerialHz = net.RingEstimate()
-	if rd := sim.RingDown(); rd != nil {
+	res.Reclosing.RingGroundHz, res.Reclosing.RingAerialHz = a.RingGround, a.RingAerial
+	if rd := a.RingDown; rd != nil {
 		rc := &res.Reclosing
 		rc.SendingPU, rc.ReceivingPU, rc.LargestPU = &rd.Sending, &rd.Receiving, &rd.Largest
 		rc.LargestMs, rc.ReactorA = rd.RingSpan*1e3, &rd.ReactorI
-		res.Notes = append(res.Notes, fmt.Sprintf("dead time %g ms: the de-energised line is simulated from the opening (line at trapped_pu, zero current in the line and its reactors) by the same model and step as the shots; every shot starts from that ring-down state", ws.DeadTime*1e3))
 	}
 	res.Caution = Caution
 	return res, nil
 }
 
-func switchingFiguresOf(shots []waves.Shot, toIEC, baseIEC float64, set study.SwitchingSettings, unprotected bool) (*switchingFigures, error) {
-	peaks := make([][3]float64, len(shots))
-	for i, s := range shots {
-		peaks[i] = s.Peak
-	}
-	st, err := waves.Statistics(peaks, toIEC)
-	if err != nil {
-		return nil, err
-	}
+// switchingFiguresOf shapes one set of statistics (pu of the IEC base baseIEC, V).
+func switchingFiguresOf(a *analysis.SwitchingFigures, baseIEC float64) *switchingFigures {
+	st := a.Stats
 	kv := baseIEC / 1e3
-	f := &switchingFigures{
+	return &switchingFigures{
 		U2PU: st.U2, UtPU: st.Ut, U2KV: st.U2 * kv, UtKV: st.Ut * kv, U2FitPU: st.U2Fit,
 		CaseU2PU: st.CaseU2, CaseUtPU: st.CaseUt, MaxPU: st.Max, MeanPU: st.Mean, SigmaPU: st.Sigma,
-		MaxKV: st.Max * kv, CaseU2KV: st.CaseU2 * kv, Unprotected: unprotected,
-		PhasePeaksPU: peaks, stats: st, toIEC: toIEC,
+		MaxKV: st.Max * kv, CaseU2KV: st.CaseU2 * kv, Unprotected: a.Unprotected,
+		PhasePeaksPU: a.PhasePeaks, stats: st, toIEC: a.ToIEC, MarginPct: a.Margin,
 	}
-	if set.SIWL > 0 {
-		m := waves.MarginPct(set.SIWL, set.Ks, set.Kcd, st.U2*baseIEC)
-		f.MarginPct = &m
-	}
-	return f, nil
 }
 
 // switchingSample returns the distribution-plot sample of a set of figures.

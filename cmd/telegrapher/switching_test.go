@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"math"
 	"os"
@@ -216,7 +217,7 @@ func TestSwitchingProgressCountsShots(t *testing.T) {
 		t.Fatal(err)
 	}
 	var buf bytes.Buffer
-	if _, err := computeSwitchingProgress(st, (&statusLine{w: &buf}).Shots()); err != nil {
+	if _, err := computeSwitchingProgress(context.Background(), st, (&statusLine{w: &buf}).Shots()); err != nil {
 		t.Fatal(err)
 	}
 	text := buf.String()

@@ -1,4 +1,4 @@
-package main
+package analysis
 
 // The remedy search: the cheapest combination of levers ([levers]) that meets every
 // target ([targets]), each candidate evaluated by the computations the ordinary
@@ -10,11 +10,11 @@ package main
 // practice, no source; the weights are meant to order typical remedies the way
 // planners usually do, cheapest first):
 //
-//	line-connected shunt reactor   remedyCostReactorBay (30) per line end where one is
-//	                               added + remedyCostPerMvar (1) per Mvar
-//	pre-insertion resistor         remedyCostPreinsertion (60), whatever its value
-//	controlled closing             remedyCostControlled (40)
-//	surge arresters at both ends   remedyCostArresters (15), whatever the rating; among
+//	line-connected shunt reactor   RemedyCostReactorBay (30) per line end where one is
+//	                               added + RemedyCostPerMvar (1) per Mvar
+//	pre-insertion resistor         RemedyCostPreinsertion (60), whatever its value
+//	controlled closing             RemedyCostControlled (40)
+//	surge arresters at both ends   RemedyCostArresters (15), whatever the rating; among
 //	                               ratings of equal cost the highest that meets the
 //	                               targets is preferred (more temporary-overvoltage
 //	                               capability, less energy)
@@ -47,8 +47,7 @@ package main
 // whose removal gives the cheapest change meeting the rest is named.
 
 import (
-	"errors"
-	"fmt"
+	"context"
 	"math"
 	"sort"
 
@@ -60,11 +59,11 @@ import (
 
 // Cost weights (cost units; see the top of this file).
 const (
-	remedyCostPerMvar      = 1.0
-	remedyCostReactorBay   = 30.0
-	remedyCostPreinsertion = 60.0
-	remedyCostControlled   = 40.0
-	remedyCostArresters    = 15.0
+	RemedyCostPerMvar      = 1.0
+	RemedyCostReactorBay   = 30.0
+	RemedyCostPreinsertion = 60.0
+	RemedyCostControlled   = 40.0
+	RemedyCostArresters    = 15.0
 )
 
 // Search settings.
@@ -74,13 +73,13 @@ const (
 	remedyKeepReactors = 3    // reactor pairs carried to the switching stage
 	remedyPIRGrid      = 7    // resistor values of the first pass
 	remedyGolden       = 8    // golden-section steps refining the resistor value
-	remedyMaxSwitching = 160  // cap on statistical switching runs per search
-	remedyReactorQ     = 300  // X/R of an added reactor (common practice for EHV shunt reactors, no source)
+	RemedyMaxSwitching = 160  // cap on statistical switching runs per search
+	RemedyReactorQ     = 300  // X/R of an added reactor (common practice for EHV shunt reactors, no source)
 	remedyTol          = 1e-9 // relative slack on a target (rounding)
 )
 
-// remedyCandidate is one setting of the levers; zero values are "no change".
-type remedyCandidate struct {
+// RemedyCandidate is one setting of the levers; zero values are "no change".
+type RemedyCandidate struct {
 	ReactorSending   float64 // var added, line-connected at the sending end
 	ReactorReceiving float64 // var added at the receiving end
 	Preinsertion     float64 // ohm; 0 = the study's setting
@@ -89,96 +88,96 @@ type remedyCandidate struct {
 }
 
 // cost returns the candidate's cost in cost units.
-func (c remedyCandidate) cost() float64 {
+func (c RemedyCandidate) Cost() float64 {
 	var k float64
 	for _, q := range []float64{c.ReactorSending, c.ReactorReceiving} {
 		if q > 0 {
-			k += remedyCostReactorBay + remedyCostPerMvar*q/1e6
+			k += RemedyCostReactorBay + RemedyCostPerMvar*q/1e6
 		}
 	}
 	if c.Preinsertion > 0 {
-		k += remedyCostPreinsertion
+		k += RemedyCostPreinsertion
 	}
 	if c.Controlled {
-		k += remedyCostControlled
+		k += RemedyCostControlled
 	}
 	if c.ArresterV > 0 {
-		k += remedyCostArresters
+		k += RemedyCostArresters
 	}
 	return k
 }
 
-// remedyFigs are the figures of one candidate on the targets' measures.
-type remedyFigs struct {
+// RemedyFigures are the figures of one candidate on the targets' measures.
+type RemedyFigures struct {
 	OpenEnd, Gain    float64 // open-end |Vr/Vs|; largest watched-harmonic band gain
 	U2, Margin       float64 // u2 (pu, IEC 60071-1 base); margin to siwl (%)
 	HasSw, HasMargin bool    // switching figures computed; margin computed
 	FirstResonanceHz float64 // lowest positive-sequence gain peak above the fundamental with gain > 1; 0 = none
 }
 
-// remedyEval is a candidate with its figures and how far it is from the targets.
-type remedyEval struct {
-	cand      remedyCandidate
-	figs      remedyFigs
-	violation float64 // largest relative violation over the targets; 0 when all are met
-	binding   string  // the target key violated most ("" when all are met)
+// RemedyEval is a candidate with its figures and how far it is from the targets.
+type RemedyEval struct {
+	Cand      RemedyCandidate
+	Figs      RemedyFigures
+	Violation float64 // largest relative violation over the targets; 0 when all are met
+	Binding   string  // the target key violated most ("" when all are met)
 }
 
-// remedySearch holds one search's state.
-type remedySearch struct {
+// RemedySearch holds one search's state.
+type RemedySearch struct {
+	ctx      context.Context // cancelled: the search stops at the next candidate
 	st       *study.Study
 	spec     study.RemedySpec
 	freqs    []float64
 	omega    float64
 	modal    waves.ModalLine
 	hasModal bool
-	runs     int         // statistical switching runs made
-	runs0    int         // runs made before the search under way (the cap counts from here)
-	evals    int         // candidates evaluated
-	status   *statusLine // progress on a terminal; nil draws nothing
-	stage    string      // the stage under way, for byStage
-	byStage  []remedyStageCount
+	runs     int            // statistical switching runs made
+	runs0    int            // runs made before the search under way (the cap counts from here)
+	evals    int            // candidates evaluated
+	progress RemedyProgress // nil: none
+	stage    string         // the stage under way, for byStage
+	byStage  []StageCount
 
-	pirSamples map[[2]float64][]remedyPIRSample // u2 against resistor value, per reactor pair
+	pirSamples map[[2]float64][]PIRSample // u2 against resistor value, per reactor pair
 }
 
-// remedyStageCount is how many candidates one stage of the search evaluated.
-type remedyStageCount struct {
-	Stage      string `json:"stage"`
-	Candidates int    `json:"candidates"`
+// StageCount is how many candidates one stage of the search evaluated.
+type StageCount struct {
+	Stage      string
+	Candidates int
 }
 
 // setStage names the stage under way (for the count by stage and the status line).
-func (rs *remedySearch) setStage(name string) {
+func (rs *RemedySearch) setStage(name string) {
 	if rs.stage != name {
 		rs.stage = name
-		rs.status.Stage("remedy: " + name)
+		rs.progress.Stage("remedy: " + name)
 	}
 }
 
-// remedyPIRSample is one point of u2 against the pre-insertion resistor.
-type remedyPIRSample struct{ Ohm, U2 float64 }
+// PIRSample is one point of u2 against the pre-insertion resistor.
+type PIRSample struct{ Ohm, U2 float64 }
 
-// newRemedySearch prepares a search of st.
-func newRemedySearch(st *study.Study, status *statusLine) (*remedySearch, error) {
-	rs := &remedySearch{st: st, spec: st.Remedy(), omega: 2 * math.Pi * st.Frequency, status: status,
-		pirSamples: map[[2]float64][]remedyPIRSample{}}
-	sc := st.Scan
-	if !(sc.FMin > 0 && sc.FMax > sc.FMin) || sc.Points < 2 {
-		return nil, usagef("%s: scan: the grid needs 0 < f_min_hz < f_max_hz and points >= 2", st.File)
+// NewRemedySearch prepares a search of st; it stops at the next candidate once ctx
+// ends, with ctx's error.
+func NewRemedySearch(ctx context.Context, st *study.Study, progress RemedyProgress) (*RemedySearch, error) {
+	if progress == nil {
+		progress = noProgress{}
 	}
-	if sc.Log {
-		rs.freqs = freqscan.LogGrid(nil, sc.FMin, sc.FMax, sc.Points)
-	} else {
-		rs.freqs = freqscan.LinearGrid(nil, sc.FMin, sc.FMax, sc.Points)
+	rs := &RemedySearch{ctx: ctx, st: st, spec: st.Remedy(), omega: 2 * math.Pi * st.Frequency, progress: progress,
+		pirSamples: map[[2]float64][]PIRSample{}}
+	var err error
+	if rs.freqs, err = ScanGrid(st); err != nil {
+		return nil, err
 	}
 	if rs.spec.Targets.Switching() {
-		if err := switchingApplicable(st); err != nil {
+		if err := SwitchingApplicable(st); err != nil {
 			return nil, err
 		}
-		ml, err := waves.NewModalLine(st.Line, st.Zero, rs.omega)
+		ml, err := ModalLine(st)
 		if err != nil {
-			return nil, usagef("%s: line: %v", st.File, err)
+			return nil, err
 		}
 		rs.modal, rs.hasModal = ml, true
 	}
@@ -200,13 +199,13 @@ func memoLines(st *study.Study) *study.Study {
 	return &cp
 }
 
-// remedyStudy returns a copy of st with the candidate's changes: added line-connected
+// RemedyStudy returns a copy of st with the candidate's changes: added line-connected
 // reactors in the positive- and zero-sequence networks (the loader gives the zero
 // sequence the same shunts, solidly earthed or, for line-connected reactors, through
 // the end's neutral reactor, which added reactors share as in switching; the far
 // system stays as the study has it), the pre-insertion resistor, and
 // arresters at both line ends. st itself is not changed.
-func remedyStudy(st *study.Study, c remedyCandidate) *study.Study {
+func RemedyStudy(st *study.Study, c RemedyCandidate) *study.Study {
 	cp := *st
 	opt := st.SwitchingOptions()
 	w, v := 2*math.Pi*st.Frequency, st.Voltage
@@ -218,7 +217,7 @@ func remedyStudy(st *study.Study, c remedyCandidate) *study.Study {
 		if add.q > 0 {
 			x := v * v / add.q
 			shunts = append(shunts, freqscan.Shunt{Name: "added reactor (remedy, " + add.end.String() + ")",
-				End: add.end, OnLine: true, L: x / w, R: x / remedyReactorQ})
+				End: add.end, OnLine: true, L: x / w, R: x / RemedyReactorQ})
 		}
 	}
 	cp.Network.Shunts = shunts
@@ -240,122 +239,57 @@ func remedyStudy(st *study.Study, c remedyCandidate) *study.Study {
 	return &cp
 }
 
-// remedyOpenEnd returns the no-load rise |Vr/Vs| at the system frequency with the
-// line-connected shunts, as `loading` computes it (propagation.OpenEnd).
-func remedyOpenEnd(st *study.Study) (float64, error) {
-	s := complex(0, 2*math.Pi*st.Frequency)
-	var ys, yr complex128
-	for _, sh := range st.Network.Shunts {
-		if !sh.OnLine {
-			continue
-		}
-		if sh.End == freqscan.Sending {
-			ys += sh.Admittance(s)
-		} else {
-			yr += sh.Admittance(s)
-		}
-	}
-	r, err := propagation.OpenEnd(st.Line, 2*math.Pi*st.Frequency, st.Voltage, ys, yr)
-	if err != nil {
-		return 0, err
-	}
-	return r.Rise, nil
-}
-
-// remedyWatchedGain returns the largest gain within the watch band of a watched
-// harmonic (screened as `scan` does: freqscan.Scan, Peaks, Screen, triplens on the
-// zero sequence where it exists) and the lowest positive-sequence gain peak above the
-// fundamental (0 when none).
-func remedyWatchedGain(st *study.Study, freqs []float64) (gain, first float64) {
-	sc := st.Scan
-	pos := freqscan.Scan(nil, st.Network, freqs)
-	posPeaks := freqscan.Peaks(st.Network, pos)
-	var zero []freqscan.Point
-	var zeroPeaks []freqscan.Peak
-	if st.ZeroNetwork != nil {
-		zero = freqscan.Scan(nil, *st.ZeroNetwork, freqs)
-		zeroPeaks = freqscan.Peaks(*st.ZeroNetwork, zero)
-	}
-	scr := freqscan.Screen(st.Network, pos, posPeaks, st.ZeroNetwork, zero, zeroPeaks, freqscan.ScreenSettings{
-		Fundamental: st.Frequency, FMax: sc.FMax, Watch: sc.WatchHarmonics, GainLimit: sc.GainLimit,
-		WatchBand: sc.WatchBand, BackgroundPct: sc.BackgroundPct, PlanningPct: sc.PlanningPct,
-	})
-	for _, r := range scr.Rows {
-		if r.Watched {
-			gain = math.Max(gain, r.BandGain)
-		}
-	}
-	for _, p := range posPeaks {
-		if p.F > 1.05*st.Frequency && (p.Unbounded || p.Gain > 1) {
-			first = p.F
-			break
-		}
-	}
-	return gain, first
-}
-
-// remedySwitching runs the statistical switching study of the modified study cst (as
-// computeSwitching does, with the study's seed and settings) and returns u2 (pu of
+// remedySwitching runs the statistical switching study of the modified study cst
+// (SwitchingFiguresOf, as the switching command, with the study's seed and
+// settings) and returns u2 (pu of
 // Us·√2/√3) and the margin to siwl (%, when set). With controlled closing the shots
 // follow waves.ControlledShots instead of random closing.
-func (rs *remedySearch) remedySwitching(cst *study.Study, controlled bool) (u2, margin float64, err error) {
-	set := cst.Switching
-	net, ws, arr := switchingSetup(cst, rs.modal)
-	net.Arresters = arr
-	if controlled {
-		ws.Controlled, ws.ControlledSigma = true, rs.spec.Levers.ControlledSigma
-	}
-	r, err := waves.Switching(net, ws, nil)
+func (rs *RemedySearch) U2(cst *study.Study, controlled bool) (u2, margin float64, err error) {
+	f, err := SwitchingFiguresOf(rs.ctx, cst, rs.modal, controlled, rs.spec.Levers.ControlledSigma)
 	if err != nil {
-		if errors.Is(err, waves.ErrSwitching) {
-			return 0, 0, usagef("%s: switching: %v", cst.File, err)
-		}
 		return 0, 0, err
 	}
 	rs.runs++
-	peaks := make([][3]float64, len(r.Shots))
-	for i, sh := range r.Shots {
-		peaks[i] = sh.Peak
+	if f.Margin != nil {
+		margin = *f.Margin
 	}
-	stats, err := waves.Statistics(peaks, cst.Voltage/cst.Us)
-	if err != nil {
-		return 0, 0, err
-	}
-	if set.SIWL > 0 {
-		margin = waves.MarginPct(set.SIWL, set.Ks, set.Kcd, stats.U2*cst.Us*math.Sqrt2/math.Sqrt(3))
-	}
-	return stats.U2, margin, nil
+	return f.Stats.U2, margin, nil
 }
 
 // evalFreq evaluates a candidate on the frequency-domain measures.
-func (rs *remedySearch) evalFreq(c remedyCandidate) (remedyFigs, error) {
-	cst := remedyStudy(rs.st, c)
-	var f remedyFigs
+func (rs *RemedySearch) evalFreq(c RemedyCandidate) (RemedyFigures, error) {
+	var f RemedyFigures
+	if err := rs.ctx.Err(); err != nil {
+		return f, err // cancelled: no more candidates
+	}
+	cst := RemedyStudy(rs.st, c)
 	var err error
-	if f.OpenEnd, err = remedyOpenEnd(cst); err != nil {
-		return f, fmt.Errorf("%s: line: %v", rs.st.File, err)
+	if f.OpenEnd, err = OpenEndRise(cst); err != nil {
+		return f, err
 	}
 	if rs.spec.Targets.HasGainWatched {
-		f.Gain, f.FirstResonanceHz = remedyWatchedGain(cst, rs.freqs)
+		if f.Gain, f.FirstResonanceHz, err = WatchedGain(rs.ctx, cst, rs.freqs); err != nil {
+			return f, err
+		}
 	}
 	rs.evals++
 	if n := len(rs.byStage); n == 0 || rs.byStage[n-1].Stage != rs.stage {
-		rs.byStage = append(rs.byStage, remedyStageCount{Stage: rs.stage})
+		rs.byStage = append(rs.byStage, StageCount{Stage: rs.stage})
 	}
 	rs.byStage[len(rs.byStage)-1].Candidates++
 	return f, nil
 }
 
 // evalAll evaluates a candidate on every target's measure.
-func (rs *remedySearch) evalAll(c remedyCandidate) (remedyEval, error) {
+func (rs *RemedySearch) evalAll(c RemedyCandidate) (RemedyEval, error) {
 	f, err := rs.evalFreq(c)
 	if err != nil {
-		return remedyEval{}, err
+		return RemedyEval{}, err
 	}
 	if rs.spec.Targets.Switching() {
-		f.U2, f.Margin, err = rs.remedySwitching(remedyStudy(rs.st, c), c.Controlled)
+		f.U2, f.Margin, err = rs.U2(RemedyStudy(rs.st, c), c.Controlled)
 		if err != nil {
-			return remedyEval{}, err
+			return RemedyEval{}, err
 		}
 		f.HasSw, f.HasMargin = true, rs.st.Switching.SIWL > 0
 	}
@@ -365,15 +299,15 @@ func (rs *remedySearch) evalAll(c remedyCandidate) (remedyEval, error) {
 // judge sets how far the figures are from the targets: each target's relative
 // violation (value/limit - 1 for the upper limits; (limit - margin)/100 for the
 // margin), the largest of them, and the target it belongs to.
-func (rs *remedySearch) judge(c remedyCandidate, f remedyFigs) remedyEval {
-	e := remedyEval{cand: c, figs: f}
+func (rs *RemedySearch) judge(c RemedyCandidate, f RemedyFigures) RemedyEval {
+	e := RemedyEval{Cand: c, Figs: f}
 	tg := rs.spec.Targets
 	check := func(key string, x float64) {
 		if math.IsInf(x, 1) {
 			x = 1e12
 		}
-		if x > remedyTol && x > e.violation {
-			e.violation, e.binding = x, key
+		if x > remedyTol && x > e.Violation {
+			e.Violation, e.Binding = x, key
 		}
 	}
 	if tg.HasOpenEnd {
@@ -408,28 +342,28 @@ func reactorLevels(r *study.Range) []float64 {
 
 // reactorStage returns the reactor pairs meeting the frequency targets, cheapest
 // first (at most remedyKeepReactors), and the closest pair when none does.
-func (rs *remedySearch) reactorStage() (keep []remedyEval, closest remedyEval, err error) {
+func (rs *RemedySearch) reactorStage() (keep []RemedyEval, closest RemedyEval, err error) {
 	lv := rs.spec.Levers
 	ls, lr := reactorLevels(lv.ReactorSending), reactorLevels(lv.ReactorReceiving)
 	total := len(ls) * len(lr)
-	grid := make([][]remedyEval, len(ls))
-	closest.violation = math.Inf(1)
+	grid := make([][]RemedyEval, len(ls))
+	closest.Violation = math.Inf(1)
 	rs.setStage("reactor pairs")
-	var feasible []remedyEval
+	var feasible []RemedyEval
 	for i, s := range ls {
-		grid[i] = make([]remedyEval, len(lr))
+		grid[i] = make([]RemedyEval, len(lr))
 		for j, r := range lr {
-			c := remedyCandidate{ReactorSending: s, ReactorReceiving: r}
+			c := RemedyCandidate{ReactorSending: s, ReactorReceiving: r}
 			f, err := rs.evalFreq(c)
 			if err != nil {
 				return nil, closest, err
 			}
 			e := rs.judge(c, f)
 			grid[i][j] = e
-			if e.violation < closest.violation || (e.violation == closest.violation && c.cost() < closest.cand.cost()) {
+			if e.Violation < closest.Violation || (e.Violation == closest.Violation && c.Cost() < closest.Cand.Cost()) {
 				closest = e
 			}
-			rs.status.Count(i*len(lr)+j+1, total, "pairs")
+			rs.progress.Count(i*len(lr)+j+1, total, "pairs")
 		}
 	}
 	tg := rs.spec.Targets
@@ -438,7 +372,7 @@ func (rs *remedySearch) reactorStage() (keep []remedyEval, closest remedyEval, e
 		for i := range ls {
 			feasible = append(feasible, grid[i]...)
 		}
-		sort.SliceStable(feasible, func(a, b int) bool { return feasible[a].cand.cost() < feasible[b].cand.cost() })
+		sort.SliceStable(feasible, func(a, b int) bool { return feasible[a].Cand.Cost() < feasible[b].Cand.Cost() })
 		return feasible, closest, nil
 	}
 	for i := range ls {
@@ -446,7 +380,7 @@ func (rs *remedySearch) reactorStage() (keep []remedyEval, closest remedyEval, e
 			e := grid[i][j]
 			// Only the grid's frontier: a pair whose lower neighbours fail the targets
 			// (a pair above a feasible one costs more).
-			if e.violation > 0 || (i > 0 && grid[i-1][j].violation == 0) || (j > 0 && grid[i][j-1].violation == 0) {
+			if e.Violation > 0 || (i > 0 && grid[i-1][j].Violation == 0) || (j > 0 && grid[i][j-1].Violation == 0) {
 				continue
 			}
 			// Lower each added rating while the targets stay met.
@@ -463,11 +397,11 @@ func (rs *remedySearch) reactorStage() (keep []remedyEval, closest remedyEval, e
 			feasible = append(feasible, e)
 		}
 	}
-	sort.SliceStable(feasible, func(a, b int) bool { return feasible[a].cand.cost() < feasible[b].cand.cost() })
+	sort.SliceStable(feasible, func(a, b int) bool { return feasible[a].Cand.Cost() < feasible[b].Cand.Cost() })
 	for _, e := range feasible {
 		dup := false
 		for _, k := range keep {
-			if math.Abs(k.cand.ReactorSending-e.cand.ReactorSending) < 1e3 && math.Abs(k.cand.ReactorReceiving-e.cand.ReactorReceiving) < 1e3 {
+			if math.Abs(k.Cand.ReactorSending-e.Cand.ReactorSending) < 1e3 && math.Abs(k.Cand.ReactorReceiving-e.Cand.ReactorReceiving) < 1e3 {
 				dup = true
 			}
 		}
@@ -483,15 +417,15 @@ func (rs *remedySearch) reactorStage() (keep []remedyEval, closest remedyEval, e
 
 // lower lowers the sending (or receiving) rating of the feasible e towards the grid
 // level below, prev (0 = none), by bisection, keeping the frequency targets met.
-func (rs *remedySearch) lower(e remedyEval, r *study.Range, prev float64, sending bool) (remedyEval, error) {
-	get := func(c remedyCandidate) float64 {
+func (rs *RemedySearch) lower(e RemedyEval, r *study.Range, prev float64, sending bool) (RemedyEval, error) {
+	get := func(c RemedyCandidate) float64 {
 		if sending {
 			return c.ReactorSending
 		}
 		return c.ReactorReceiving
 	}
-	with := func(q float64) remedyCandidate {
-		c := e.cand
+	with := func(q float64) RemedyCandidate {
+		c := e.Cand
 		if sending {
 			c.ReactorSending = q
 		} else {
@@ -499,17 +433,17 @@ func (rs *remedySearch) lower(e remedyEval, r *study.Range, prev float64, sendin
 		}
 		return c
 	}
-	try := func(q float64) (remedyEval, bool, error) {
+	try := func(q float64) (RemedyEval, bool, error) {
 		c := with(q)
 		f, err := rs.evalFreq(c)
 		if err != nil {
-			return remedyEval{}, false, err
+			return RemedyEval{}, false, err
 		}
 		x := rs.judge(c, f)
-		return x, x.violation == 0, nil
+		return x, x.Violation == 0, nil
 	}
 	rs.setStage("reactor ratings refined")
-	lo, hi := prev, get(e.cand)
+	lo, hi := prev, get(e.Cand)
 	if prev == 0 {
 		if r.Min > 0 {
 			x, ok, err := try(r.Min)
@@ -545,7 +479,7 @@ type remedyCombo struct {
 }
 
 // combos lists the settings of the switching levers the study allows.
-func (rs *remedySearch) combos() []remedyCombo {
+func (rs *RemedySearch) combos() []remedyCombo {
 	lv := rs.spec.Levers
 	pirs := []bool{false}
 	if lv.Preinsertion != nil {
@@ -577,15 +511,15 @@ func (rs *remedySearch) combos() []remedyCombo {
 //
 // References:
 //   - Kiefer, J., Sequential minimax search for a maximum, Proc. AMS 4 (1953) 502-506.
-func (rs *remedySearch) bestResistor(base remedyCandidate) (float64, error) {
+func (rs *RemedySearch) bestResistor(base RemedyCandidate) (float64, error) {
 	r := rs.spec.Levers.Preinsertion
 	key := [2]float64{base.ReactorSending, base.ReactorReceiving}
 	u2At := func(ohm float64) (float64, error) {
 		c := base
 		c.Preinsertion, c.Controlled, c.ArresterV = ohm, false, 0
-		u2, _, err := rs.remedySwitching(remedyStudy(rs.st, c), false)
+		u2, _, err := rs.U2(RemedyStudy(rs.st, c), false)
 		if err == nil {
-			rs.pirSamples[key] = append(rs.pirSamples[key], remedyPIRSample{Ohm: ohm, U2: u2})
+			rs.pirSamples[key] = append(rs.pirSamples[key], PIRSample{Ohm: ohm, U2: u2})
 		}
 		return u2, err
 	}
@@ -649,32 +583,32 @@ func (rs *remedySearch) bestResistor(base remedyCandidate) (float64, error) {
 // switchingStage combines the reactor pairs with the switching levers in increasing
 // order of cost and returns the first candidate meeting every target, with ok false
 // and the closest candidate evaluated when none does (or the run cap is reached).
-func (rs *remedySearch) switchingStage(reactors []remedyEval) (best remedyEval, ok bool, capped bool, err error) {
+func (rs *RemedySearch) switchingStage(reactors []RemedyEval) (best RemedyEval, ok bool, capped bool, err error) {
 	type trial struct {
-		r     remedyEval
+		r     RemedyEval
 		combo remedyCombo
 		cost  float64
 	}
 	var trials []trial
 	for _, r := range reactors {
 		for _, cb := range rs.combos() {
-			c := r.cand
+			c := r.Cand
 			c.Controlled, c.ArresterV = cb.controlled, cb.arresterV
 			if cb.pir {
 				c.Preinsertion = 1 // placeholder for the cost; the value is found below
 			}
-			trials = append(trials, trial{r: r, combo: cb, cost: c.cost()})
+			trials = append(trials, trial{r: r, combo: cb, cost: c.Cost()})
 		}
 	}
 	sort.SliceStable(trials, func(a, b int) bool { return trials[a].cost < trials[b].cost })
 	rs.setStage("switching combinations")
 	resistor := map[[2]float64]float64{}
-	best.violation = math.Inf(1)
+	best.Violation = math.Inf(1)
 	for i, t := range trials {
-		if rs.runs-rs.runs0 >= remedyMaxSwitching {
+		if rs.runs-rs.runs0 >= RemedyMaxSwitching {
 			return best, false, true, nil
 		}
-		c := t.r.cand
+		c := t.r.Cand
 		c.Controlled, c.ArresterV = t.combo.controlled, t.combo.arresterV
 		if t.combo.pir {
 			key := [2]float64{c.ReactorSending, c.ReactorReceiving}
@@ -691,11 +625,11 @@ func (rs *remedySearch) switchingStage(reactors []remedyEval) (best remedyEval, 
 		if err != nil {
 			return best, false, false, err
 		}
-		rs.status.Count(i+1, len(trials), "combinations")
-		if e.violation == 0 {
+		rs.progress.Count(i+1, len(trials), "combinations")
+		if e.Violation == 0 {
 			return e, true, false, nil
 		}
-		if e.violation < best.violation {
+		if e.Violation < best.Violation {
 			best = e
 		}
 	}
@@ -705,7 +639,7 @@ func (rs *remedySearch) switchingStage(reactors []remedyEval) (best remedyEval, 
 // search runs the two stages for the targets in rs.spec and returns the cheapest
 // candidate meeting them all (feasible), or the closest one found; capped reports
 // that the cap on statistical switching runs ended the search.
-func (rs *remedySearch) search() (chosen remedyEval, feasible, capped bool, err error) {
+func (rs *RemedySearch) search() (chosen RemedyEval, feasible, capped bool, err error) {
 	rs.runs0 = rs.runs
 	tg, lv := rs.spec.Targets, rs.spec.Levers
 	keep, closest, err := rs.reactorStage()
@@ -717,7 +651,7 @@ func (rs *remedySearch) search() (chosen remedyEval, feasible, capped bool, err 
 		chosen = closest
 		if tg.Switching() {
 			// The closest reactors with the most protective switching levers.
-			c := closest.cand
+			c := closest.Cand
 			c.Controlled = lv.Controlled
 			if len(lv.ArrestersV) > 0 {
 				c.ArresterV = lv.ArrestersV[0]
@@ -727,7 +661,7 @@ func (rs *remedySearch) search() (chosen remedyEval, feasible, capped bool, err 
 					return chosen, false, false, err
 				}
 			}
-			chosen = remedyEval{cand: c}
+			chosen = RemedyEval{Cand: c}
 		}
 		return chosen, false, false, nil
 	case !tg.Switching():
@@ -737,16 +671,16 @@ func (rs *remedySearch) search() (chosen remedyEval, feasible, capped bool, err 
 	}
 }
 
-// remedyInfeasible is a target no change within the levers meets: alone (Reachable
+// Infeasible is a target no change within the levers meets: alone (Reachable
 // is then the best value of its measure the search found, With the change giving
 // it), or together with the others (ConflictsWith lists them).
-type remedyInfeasible struct {
-	Target        string        `json:"target"`
-	Limit         float64       `json:"limit"`
-	Reachable     *float64      `json:"reachable,omitempty"`
-	With          remedyChanges `json:"with"`
-	ConflictsWith []string      `json:"conflicts_with,omitempty"`
-	Capped        bool          `json:"search_capped,omitempty"`
+type Infeasible struct {
+	Target        string
+	Limit         float64
+	Reachable     *float64
+	With          RemedyCandidate
+	ConflictsWith []string
+	Capped        bool // the search stopped at its cap of switching runs
 }
 
 // targetKeys lists the keys of the targets present in tg, in the [targets] order.
@@ -773,7 +707,7 @@ func keepTargets(tg study.Targets, keep func(key string) bool) study.Targets {
 }
 
 // targetFigure returns a target's limit and the candidate's value of its measure.
-func targetFigure(tg study.Targets, f remedyFigs, key string) (limit, value float64) {
+func targetFigure(tg study.Targets, f RemedyFigures, key string) (limit, value float64) {
 	switch key {
 	case "max_open_end_pu":
 		return tg.OpenEndPU, f.OpenEnd
@@ -791,7 +725,7 @@ func targetFigure(tg study.Targets, f remedyFigs, key string) (limit, value floa
 // the cheapest change meeting all the other targets (ok false when none does). When
 // each target can be met alone, the one target whose removal gives the cheapest
 // change meeting the rest is returned as conflicting with them.
-func (rs *remedySearch) separate() (out []remedyInfeasible, alt remedyEval, ok bool, err error) {
+func (rs *RemedySearch) separate() (out []Infeasible, alt RemedyEval, ok bool, err error) {
 	all := rs.spec.Targets
 	defer func() { rs.spec.Targets = all }()
 	drop := map[string]bool{}
@@ -804,18 +738,18 @@ func (rs *remedySearch) separate() (out []remedyInfeasible, alt remedyEval, ok b
 		if met {
 			continue
 		}
-		if e, err = rs.evalAll(e.cand); err != nil {
+		if e, err = rs.evalAll(e.Cand); err != nil {
 			return nil, alt, false, err
 		}
-		limit, v := targetFigure(all, e.figs, k)
-		out = append(out, remedyInfeasible{Target: k, Limit: limit, Reachable: optF(true, v),
-			With: changesJSON(e.cand, rs.spec.Levers), Capped: capped})
+		limit, v := targetFigure(all, e.Figs, k)
+		out = append(out, Infeasible{Target: k, Limit: limit, Reachable: &v,
+			With: e.Cand, Capped: capped})
 		drop[k] = true
 	}
 	if len(out) > 0 {
 		rest := keepTargets(all, func(key string) bool { return !drop[key] })
 		if !rest.Any() {
-			return out, remedyEval{}, true, nil // nothing else to meet: no change
+			return out, RemedyEval{}, true, nil // nothing else to meet: no change
 		}
 		rs.spec.Targets = rest
 		e, met, _, err := rs.search()
@@ -825,34 +759,34 @@ func (rs *remedySearch) separate() (out []remedyInfeasible, alt remedyEval, ok b
 		return out, e, true, nil
 	}
 	// Every target can be met alone: drop the one whose removal costs least.
-	best, bestKey := remedyEval{}, ""
+	best, bestKey := RemedyEval{}, ""
 	for _, k := range targetKeys(all) {
 		rs.spec.Targets = keepTargets(all, func(key string) bool { return key != k })
 		e, met, _, err := rs.search()
 		if err != nil {
 			return nil, alt, false, err
 		}
-		if met && (bestKey == "" || e.cand.cost() < best.cand.cost()) {
+		if met && (bestKey == "" || e.Cand.Cost() < best.Cand.Cost()) {
 			best, bestKey = e, k
 		}
 	}
 	if bestKey == "" {
 		return nil, alt, false, nil
 	}
-	limit, _ := targetFigure(all, best.figs, bestKey)
+	limit, _ := targetFigure(all, best.Figs, bestKey)
 	var with []string
 	for _, k := range targetKeys(all) {
 		if k != bestKey {
 			with = append(with, k)
 		}
 	}
-	return []remedyInfeasible{{Target: bestKey, Limit: limit, With: changesJSON(best.cand, rs.spec.Levers), ConflictsWith: with}}, best, true, nil
+	return []Infeasible{{Target: bestKey, Limit: limit, With: best.Cand, ConflictsWith: with}}, best, true, nil
 }
 
 // merged returns the counts by stage with each stage once, in order of first use (a
 // stage may run again, as in separate).
-func (rs *remedySearch) merged() []remedyStageCount {
-	var out []remedyStageCount
+func (rs *RemedySearch) merged() []StageCount {
+	var out []StageCount
 	at := map[string]int{}
 	for _, b := range rs.byStage {
 		if i, ok := at[b.Stage]; ok {
@@ -864,3 +798,18 @@ func (rs *remedySearch) merged() []remedyStageCount {
 	}
 	return out
 }
+
+// RemedyProgress is told the stage of the remedy search under way and its count of
+// candidates; a terminal status line implements it.
+type RemedyProgress interface {
+	Stage(name string)
+	Count(done, total int, what string)
+}
+
+type noProgress struct{}
+
+func (noProgress) Stage(string)           {}
+func (noProgress) Count(int, int, string) {}
+
+// Freqs returns the frequencies (Hz) the search screens the harmonics on.
+func (rs *RemedySearch) Freqs() []float64 { return rs.freqs }
