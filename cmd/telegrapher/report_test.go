@@ -258,9 +258,10 @@ func TestReportWithoutZeroSequence(t *testing.T) {
 
 // TestReportRefusesForeignFolder: an existing folder not written by telegrapher is
 // left alone without --force (exit 2); with it the report is added and the user's
-// file stays.
+// file stays. The tiny study (outfolder_test.go): only the folder handling is checked.
 func TestReportRefusesForeignFolder(t *testing.T) {
 	t.Parallel()
+	tiny, _, _ := tinyFiles(t, t.TempDir())
 	out := filepath.Join(t.TempDir(), "notes")
 	if err := os.MkdirAll(out, 0o755); err != nil {
 		t.Fatal(err)
@@ -269,7 +270,7 @@ func TestReportRefusesForeignFolder(t *testing.T) {
 		t.Fatal(err)
 	}
 	var stdout, stderr bytes.Buffer
-	if code := run([]string{"demo", "--out", out}, &stdout, &stderr); code != 2 {
+	if code := run([]string{"report", tiny, "--out", out}, &stdout, &stderr); code != 2 {
 		t.Fatalf("exit %d, want 2: %s", code, stderr.String())
 	}
 	if !strings.Contains(stderr.String(), "--force") {
@@ -278,7 +279,7 @@ func TestReportRefusesForeignFolder(t *testing.T) {
 	if got := listDir(t, out); len(got) != 1 || got[0] != "notes.txt" {
 		t.Errorf("folder changed: %v", got)
 	}
-	if code := run([]string{"demo", "--out", out, "--force"}, &stdout, &stderr); code != 0 {
+	if code := run([]string{"report", tiny, "--out", out, "--force"}, &stdout, &stderr); code != 0 {
 		t.Fatalf("--force: exit %d: %s", code, stderr.String())
 	}
 	if _, err := os.Stat(filepath.Join(out, "report.html")); err != nil {
@@ -291,8 +292,10 @@ func TestReportRefusesForeignFolder(t *testing.T) {
 
 // TestReportFailureLeavesNothing: a part failing midway (after others wrote their
 // files) leaves neither a partial folder nor temporary files, and an earlier report
-// in place stays as it was. Not parallel: it swaps a part of the report.
+// in place stays as it was (the tiny study: the folder handling is checked). Not
+// parallel: it swaps a part of the report.
 func TestReportFailureLeavesNothing(t *testing.T) {
+	tiny, _, _ := tinyFiles(t, t.TempDir())
 	saved := reportParts
 	defer func() { reportParts = saved }()
 	reportParts = append(append([]reportPart{}, saved[:2]...),
@@ -300,7 +303,7 @@ func TestReportFailureLeavesNothing(t *testing.T) {
 	parent := t.TempDir()
 	out := filepath.Join(parent, "rep")
 	var stdout, stderr bytes.Buffer
-	if code := run([]string{"demo", "--out", out}, &stdout, &stderr); code != 1 {
+	if code := run([]string{"report", tiny, "--out", out}, &stdout, &stderr); code != 1 {
 		t.Fatalf("exit %d, want 1", code)
 	}
 	if got := listDir(t, parent); len(got) != 0 {
@@ -308,7 +311,7 @@ func TestReportFailureLeavesNothing(t *testing.T) {
 	}
 	// An earlier report survives a failed run untouched.
 	reportParts = saved
-	if code := run([]string{"demo", "--out", out}, &stdout, &stderr); code != 0 {
+	if code := run([]string{"report", tiny, "--out", out}, &stdout, &stderr); code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr.String())
 	}
 	before, err := os.ReadFile(filepath.Join(out, "report.html"))
@@ -317,7 +320,7 @@ func TestReportFailureLeavesNothing(t *testing.T) {
 	}
 	reportParts = append(append([]reportPart{}, saved...),
 		reportPart{"failing part", func(*reportRun) (report.Section, error) { return report.Section{}, errors.New("deliberate failure") }})
-	if code := run([]string{"demo", "--out", out}, &stdout, &stderr); code != 1 {
+	if code := run([]string{"report", tiny, "--out", out}, &stdout, &stderr); code != 1 {
 		t.Fatalf("exit %d, want 1", code)
 	}
 	after, err := os.ReadFile(filepath.Join(out, "report.html"))
