@@ -538,44 +538,27 @@ func (rs *RemedySearch) bestResistor(base RemedyCandidate) (float64, error) {
 			best = i
 		}
 	}
+	// Golden section between the grid neighbours of the grid's best, keeping the best
+	// value seen (u2 of a finite set of shots need not be exactly unimodal).
 	a, b := xs[max(best-1, 0)], xs[min(best+1, remedyPIRGrid-1)]
 	bx, by := xs[best], ys[best]
-	g := (math.Sqrt(5) - 1) / 2
-	x1, x2 := b-g*(b-a), a+g*(b-a)
-	f1, err := u2At(x1)
+	var err error
+	negU2 := func(ohm float64) float64 {
+		if err != nil {
+			return math.Inf(-1)
+		}
+		var u float64
+		if u, err = u2At(ohm); err != nil {
+			return math.Inf(-1)
+		}
+		if u < by {
+			bx, by = ohm, u
+		}
+		return -u
+	}
+	propagation.GoldenMax(negU2, a, b, func(a, b float64) bool { return false }, remedyGolden)
 	if err != nil {
 		return 0, err
-	}
-	f2, err := u2At(x2)
-	if err != nil {
-		return 0, err
-	}
-	for k := 0; k < remedyGolden; k++ {
-		if f1 < by {
-			bx, by = x1, f1
-		}
-		if f2 < by {
-			bx, by = x2, f2
-		}
-		if f1 < f2 {
-			b, x2, f2 = x2, x1, f1
-			x1 = b - g*(b-a)
-			if f1, err = u2At(x1); err != nil {
-				return 0, err
-			}
-		} else {
-			a, x1, f1 = x1, x2, f2
-			x2 = a + g*(b-a)
-			if f2, err = u2At(x2); err != nil {
-				return 0, err
-			}
-		}
-	}
-	if f1 < by {
-		bx = x1
-	}
-	if f2 < by && f2 < f1 {
-		bx = x2
 	}
 	return bx, nil
 }
