@@ -114,17 +114,16 @@ type modelError struct {
 
 // sectionOut is one section of a sectioned line.
 type sectionOut struct {
-	Name                    string       `json:"name"`
-	LengthKm                float64      `json:"length_km"`
-	ZcOhm                   complex128   `json:"zc_ohm"`
-	GammaPerKm              complex128   `json:"gamma_per_km"`
-	AlphaNpPerKm            float64      `json:"alpha_np_per_km"`
-	BetaRadPerKm            float64      `json:"beta_rad_per_km"`
-	ZcLosslessOhm           float64      `json:"zc_lossless_ohm"`
-	VelocityKmPerS          float64      `json:"velocity_km_per_s"`
-	ElectricalLengthDeg     float64      `json:"electrical_length_deg"`
-	Sequence                *sequenceOut `json:"sequence,omitempty"`
-	inductance, capacitance float64      // H and F over the whole section, at frequency_hz
+	Name                string       `json:"name"`
+	LengthKm            float64      `json:"length_km"`
+	ZcOhm               complex128   `json:"zc_ohm"`
+	GammaPerKm          complex128   `json:"gamma_per_km"`
+	AlphaNpPerKm        float64      `json:"alpha_np_per_km"`
+	BetaRadPerKm        float64      `json:"beta_rad_per_km"`
+	ZcLosslessOhm       float64      `json:"zc_lossless_ohm"`
+	VelocityKmPerS      float64      `json:"velocity_km_per_s"`
+	ElectricalLengthDeg float64      `json:"electrical_length_deg"`
+	Sequence            *sequenceOut `json:"sequence,omitempty"`
 }
 
 // constantsResult is the constants command's result (JSON fields per the contract,
