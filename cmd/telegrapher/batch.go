@@ -100,10 +100,13 @@ starts.`,
 				}
 				defer folder.discard() // nothing to do once committed
 				var progress func(int)
-				if isTerminal(stderr) {
-					progress = batchProgressBar(stderr, len(lines), "lines")
+				status := newStatusLine(stderr)
+				if status != nil {
+					status.Stage("batch")
+					progress = func(done int) { status.Count(done, len(lines), "lines") }
 				}
 				results, err := screenInventory(ctx, args[0], lines, *jobs, progress)
+				status.Clear()
 				if err != nil {
 					return folder.interrupted(ctx, err)
 				}

@@ -102,15 +102,18 @@ func TestParallelEach(t *testing.T) {
 	}
 }
 
+// The batch draws its lines on the one status line, counted to the total.
 func TestBatchProgressBar(t *testing.T) {
 	t.Parallel()
 	var b strings.Builder
-	p := batchProgressBar(&b, 4, "lines")
-	p(1)
-	p(4)
-	s := b.String()
-	if !strings.Contains(s, "1/4 lines") || !strings.Contains(s, "4/4 lines in") || !strings.HasSuffix(s, "\n") {
-		t.Errorf("progress bar drew %q", s)
+	s := &statusLine{w: &b}
+	s.Stage("batch")
+	s.Count(1, 4, "lines")
+	s.Count(4, 4, "lines")
+	s.Clear()
+	got := b.String()
+	if !strings.Contains(got, "batch, lines") || !strings.Contains(got, "(4/4)") {
+		t.Errorf("progress bar drew %q", got)
 	}
 }
 

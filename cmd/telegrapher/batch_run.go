@@ -1,11 +1,9 @@
 package main
 
 import (
-	"fmt"
 	"io"
 	"os"
 	"runtime"
-	"strings"
 	"sync"
 	"sync/atomic"
 	"time"
@@ -70,23 +68,4 @@ func isTerminal(w io.Writer) bool {
 	}
 	info, err := f.Stat()
 	return err == nil && info.Mode()&os.ModeCharDevice != 0
-}
-
-// batchProgressBar returns a progress function drawing a bar of done/total on w, redrawn in
-// place with a carriage return, and ended by a line break when done == total.
-func batchProgressBar(w io.Writer, total int, what string) func(done int) {
-	const width = 30
-	start := time.Now()
-	return func(done int) {
-		filled := width * done / max(total, 1)
-		eta := ""
-		if done > 0 && done < total {
-			left := time.Since(start) / time.Duration(done) * time.Duration(total-done)
-			eta = fmt.Sprintf(", about %s left", left.Round(time.Second))
-		}
-		fmt.Fprintf(w, "\r[%s%s] %d/%d %s%s   ", strings.Repeat("#", filled), strings.Repeat("-", width-filled), done, total, what, eta)
-		if done >= total {
-			fmt.Fprintf(w, "\r[%s] %d/%d %s in %s        \n", strings.Repeat("#", width), total, total, what, time.Since(start).Round(100*time.Millisecond))
-		}
-	}
 }

@@ -2,29 +2,34 @@ package main
 
 // statusLine: the one progress line of a command that can take over a second, drawn on
 // standard error only when it is a terminal (never into a file or a pipe, never on
-// standard output).
+// standard output), by github.com/schollz/progressbar.
 
 import (
-	"fmt"
 	"io"
-	"strings"
 	"sync"
 	"time"
+
+	"github.com/schollz/progressbar/v3"
 )
 
-// statusLine draws "stage [####......] done/total unit" in place with a carriage
-// return, at most every statusEvery and always at the end of a count. A nil
+// statusLine draws the stage under way ("report 2/6: harmonic scan") as a spinner, and
+// a count within it ("remedy: reactor pairs  46% |█████     | (6/13)") as a bar,
+// redrawn in place at most every statusEvery and always at the end of a count. A nil
 // *statusLine draws nothing, so callers need not check.
 type statusLine struct {
 	w     io.Writer
 	mu    sync.Mutex
 	stage string
-	last  time.Time
-	shown bool
+	bar   *progressbar.ProgressBar
+	total int    // the count the bar is drawn for; 0 for the stage's spinner
+	unit  string // what it counts
 }
 
-// statusEvery is the least time between two redraws of a count.
+// statusEvery is the least time between two redraws.
 const statusEvery = 100 * time.Millisecond
+
+// statusWidth is the width of the bar in characters.
+const statusWidth = 30
 
 // newStatusLine returns a status line on stderr when it is a terminal, else nil.
 func newStatusLine(stderr io.Writer) *statusLine {
@@ -41,24 +46,37 @@ func (s *statusLine) Stage(name string) {
 	}
 	s.mu.Lock()
 	defer s.mu.Unlock()
-	s.stage = name
-	s.draw(name + " ...")
+	s.clear()
+	s.stage, s.total, s.unit = name, 0, ""
+	// Drawn once (no spinner goroutine redrawing it after the stage has moved on).
+	s.bar = progressbar.NewOptions(-1, progressbar.OptionSetWriter(s.w), progressbar.OptionSetDescription(name),
+		progressbar.OptionThrottle(statusEvery), progressbar.OptionSetRenderBlankState(true),
+		progressbar.OptionSetSpinnerChangeInterval(0))
 }
 
-// Count draws the stage's progress: done of total units.
+// Count draws the stage's progress: done of total, counting unit ("shots"; "" when the
+// stage's name says what is counted).
 func (s *statusLine) Count(done, total int, unit string) {
 	if s == nil {
 		return
 	}
 	s.mu.Lock()
 	defer s.mu.Unlock()
-	if done < total && time.Since(s.last) < statusEvery {
-		return
+	if s.bar == nil || s.total != total || s.unit != unit {
+		s.clear()
+		s.total, s.unit = total, unit
+		desc := s.stage
+		switch {
+		case desc == "":
+			desc = unit
+		case unit != "":
+			desc += ", " + unit
+		}
+		s.bar = progressbar.NewOptions(max(total, 1), progressbar.OptionSetWriter(s.w),
+			progressbar.OptionSetDescription(desc), progressbar.OptionShowCount(),
+			progressbar.OptionSetWidth(statusWidth), progressbar.OptionThrottle(statusEvery))
 	}
-	s.last = time.Now()
-	const width = 30
-	n := min(done*width/max(total, 1), width)
-	s.draw(fmt.Sprintf("%s [%s%s] %d/%d %s", s.stage, strings.Repeat("#", n), strings.Repeat(".", width-n), done, total, unit))
+	_ = s.bar.Set(min(done, max(total, 1))) // into a terminal: nothing to report
 }
 
 // Shots returns the switching simulator's progress callback: done of total shots,
@@ -83,13 +101,12 @@ func (s *statusLine) Clear() {
 	}
 	s.mu.Lock()
 	defer s.mu.Unlock()
-	if s.shown {
-		fmt.Fprint(s.w, "\r\033[K")
-		s.shown = false
-	}
+	s.clear()
 }
 
-func (s *statusLine) draw(text string) {
-	fmt.Fprintf(s.w, "\r\033[K%s", text)
-	s.shown = true
+func (s *statusLine) clear() {
+	if s.bar != nil {
+		_ = s.bar.Clear()
+		s.bar = nil
+	}
 }

@@ -538,18 +538,19 @@ func TestRemedyCountsAgreeWithProgress(t *testing.T) {
 	if sum != res.CandidatesTried || sum == 0 {
 		t.Fatalf("by stage %+v adds up to %d, candidates_tried %d", res.CandidatesByStage, sum, res.CandidatesTried)
 	}
-	lines := strings.Split(buf.String(), "\r\033[K")
+	// The last drawing of the reactor-pair stage's bar ("remedy: reactor pairs 100%
+	// |███...| (13/13)").
 	last := ""
-	for _, l := range lines {
-		if strings.HasPrefix(l, "remedy: reactor pairs [") {
-			last = l
+	for _, l := range strings.Split(buf.String(), "\r") {
+		if strings.HasPrefix(l, "remedy: reactor pairs ") && strings.Contains(l, "|") {
+			last = strings.TrimSpace(l)
 		}
 	}
 	for _, b := range res.CandidatesByStage {
 		if b.Stage != "reactor pairs" {
 			continue
 		}
-		if want := fmt.Sprintf("] %d/%d pairs", b.Candidates, b.Candidates); !strings.HasSuffix(last, want) {
+		if want := fmt.Sprintf("(%d/%d)", b.Candidates, b.Candidates); !strings.HasSuffix(last, want) {
 			t.Errorf("status line ends %q, want %q: the count shown differs from the count stated", last, want)
 		}
 		return

@@ -363,7 +363,7 @@ func (rs *RemedySearch) reactorStage() (keep []RemedyEval, closest RemedyEval, e
 			if e.Violation < closest.Violation || (e.Violation == closest.Violation && c.Cost() < closest.Cand.Cost()) {
 				closest = e
 			}
-			rs.progress.Count(i*len(lr)+j+1, total, "pairs")
+			rs.progress.Count(i*len(lr)+j+1, total, "")
 		}
 	}
 	tg := rs.spec.Targets
@@ -608,7 +608,7 @@ func (rs *RemedySearch) switchingStage(reactors []RemedyEval) (best RemedyEval, 
 		if err != nil {
 			return best, false, false, err
 		}
-		rs.progress.Count(i+1, len(trials), "combinations")
+		rs.progress.Count(i+1, len(trials), "")
 		if e.Violation == 0 {
 			return e, true, false, nil
 		}
