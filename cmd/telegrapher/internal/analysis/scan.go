@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 	"math/cmplx"
+	"sort"
 
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 	"github.com/telegrapher/telegrapher/freqscan"
@@ -136,22 +137,82 @@ func ScanGrid(st *study.Study) ([]float64, error) {
 // magnifies (Hz; 0 when none), on the grid freqs (ScanGrid): the remedy search's
 // harmonic measures.
 func WatchedGain(ctx context.Context, st *study.Study, freqs []float64) (gain, first float64, err error) {
-	res, err := screen(ctx, st, freqs, false)
+	// The screening's band gains need only the peaks inside the watched bands, and the
+	// first resonance the peaks up to the first that magnifies: the remedy search,
+	// which calls this for every candidate, refines no other peak. A peak's frequency
+	// and gain depend only on its grid neighbours, so these are the peaks Scan finds.
+	set := screenSettings(st)
+	pos, err := freqscan.ScanContext(ctx, nil, st.Network, freqs)
 	if err != nil {
 		return 0, 0, err
 	}
-	for _, r := range res.Screen.Rows {
+	var zero *freqscan.Network
+	var zeroPts []freqscan.Point
+	var zeroPeaks []freqscan.Peak
+	if st.ZeroNetwork != nil {
+		zero = st.ZeroNetwork
+		if zeroPts, err = freqscan.ScanContext(ctx, nil, *zero, freqs); err != nil {
+			return 0, 0, err
+		}
+		zeroPeaks = bandPeaks(*zero, zeroPts, set)
+	}
+	scr := freqscan.Screen(st.Network, pos, bandPeaks(st.Network, pos, set), zero, zeroPts, zeroPeaks, set)
+	for _, r := range scr.Rows {
 		if r.Watched {
 			gain = math.Max(gain, r.BandGain)
 		}
 	}
-	for _, p := range res.Positive.Peaks {
-		if p.F > 1.05*st.Frequency && (p.Unbounded || p.Gain > 1) {
-			first = p.F
-			break
+	return gain, firstAbove(st.Network, pos, 1.05*st.Frequency), nil
+}
+
+// bandPeaks returns the peaks of pts (as freqscan.Peaks finds them) whose frequency
+// lies within the band of a watched harmonic, refining only the grid points in or
+// next to a band: two points beyond each band edge, since a grid maximum just outside
+// may refine to a frequency inside.
+func bandPeaks(n freqscan.Network, pts []freqscan.Point, set freqscan.ScreenSettings) []freqscan.Peak {
+	watch := set.Watch
+	if watch == nil {
+		watch = freqscan.DefaultWatch()
+	}
+	band := set.WatchBand
+	if band == 0 {
+		band = freqscan.DefaultWatchBand
+	}
+	var out []freqscan.Peak
+	for _, h := range watch {
+		lo, hi := float64(h)*set.Fundamental*(1-band), float64(h)*set.Fundamental*(1+band)
+		i := sort.Search(len(pts), func(i int) bool { return pts[i].F >= lo })
+		j := sort.Search(len(pts), func(j int) bool { return pts[j].F > hi })
+		i, j = max(i-2, 0), min(j+2, len(pts))
+		if j-i < 3 {
+			continue
+		}
+		for _, p := range freqscan.Peaks(n, pts[i:j]) {
+			if p.F >= lo && p.F <= hi {
+				out = append(out, p)
+			}
 		}
 	}
-	return gain, first, nil
+	return out
+}
+
+// firstAbove returns the frequency (Hz) of the lowest gain peak of pts above fLow that
+// magnifies (gain > 1 or unbounded), 0 when none: the peaks of freqscan.Peaks, refined
+// on growing leading parts of the scan until one is found (a peak's frequency and gain
+// depend only on its grid neighbours, so they are those of the whole scan).
+func firstAbove(n freqscan.Network, pts []freqscan.Point, fLow float64) float64 {
+	for k := min(len(pts), 64); ; k = min(2*k, len(pts)) {
+		// The last point of a leading part cannot be a peak of it: only the peaks
+		// before it are final.
+		for _, p := range freqscan.Peaks(n, pts[:k]) {
+			if p.F > fLow && (p.Unbounded || p.Gain > 1) && (k == len(pts) || p.F < pts[k-2].F) {
+				return p.F
+			}
+		}
+		if k == len(pts) {
+			return 0
+		}
+	}
 }
 
 // screenSettings are the harmonic screening settings of [scan].
