@@ -593,9 +593,11 @@ var boundsCases = []boundsCase{
 	{"", "frequency_hz", "1", "10000", nil, false},
 	{"", "voltage_kv", "1", "2000", boundsChain(boundsWith("", "us_kv", "2000")), false},
 	{"", "us_kv", "400", "2000", nil, false},
-	// The poles close together (pole_sigma_ms = 0): a 10 m line runs at its travel
-	// time, 0.017 µs, and a spread of ±3 ms of closing instants would only add steps.
-	{"line", "length_km", "0.01", "10000", boundsWith("switching", "pole_sigma_ms", "0"), false},
+	// A 10 m line runs at its travel time, 0.017 µs, and rings out within
+	// microseconds: half a millisecond of energisation and switching, the poles
+	// closing together (a spread of ±3 ms of closing instants would only add steps).
+	{"line", "length_km", "0.01", "10000", boundsChain(boundsWith("switching", "pole_sigma_ms", "0"),
+		boundsWith("switching", "duration_ms", "0.5"), boundsWith("energise", "duration_ms", "0.5")), false},
 	{"line", "r_ohm_per_km", "0.000001", "1000", nil, false},
 	{"line", "l_mh_per_km", "0.0001", "100", nil, false},
 	{"line", "x_ohm_per_km", "0.000031415926535897936", "31.41592653589793", func(s string) string {

@@ -253,8 +253,8 @@ func TestRemedyControlledClosingLowersU2(t *testing.T) {
 // closest case with every lever piled on).
 func TestRemedyInfeasibleNamesBinding(t *testing.T) {
 	t.Parallel()
-	// 40 shots a run instead of the file's 100: the search is what is tested.
-	head := strings.Replace(remedyWithout(t, remedyReadFile(t, "remedy_switching.toml")), "shots = 100", "shots = 40", 1)
+	// 20 shots a run instead of the file's 100: the search is what is tested.
+	head := strings.Replace(remedyWithout(t, remedyReadFile(t, "remedy_switching.toml")), "shots = 100", "shots = 20", 1)
 	for _, tc := range []struct {
 		name, tables, binding string
 		others                []string // targets the proposed change must meet
