@@ -5,9 +5,9 @@ import (
 	"math"
 	"math/cmplx"
 	"runtime"
-	"sync"
 
 	"github.com/telegrapher/telegrapher/propagation"
+	"golang.org/x/sync/errgroup"
 )
 
 // Point is the network's response at one frequency of a scan.
@@ -51,16 +51,12 @@ func Scan(dst []Point, n Network, freqs []float64) []Point {
 		return dst
 	}
 	chunk := (len(freqs) + workers - 1) / workers
-	var wg sync.WaitGroup
+	var g errgroup.Group
 	for lo := 0; lo < len(freqs); lo += chunk {
 		hi := min(lo+chunk, len(freqs))
-		wg.Add(1)
-		go func(lo, hi int) {
-			defer wg.Done()
-			scanRange(dst[lo:hi], n, freqs[lo:hi])
-		}(lo, hi)
+		g.Go(func() error { scanRange(dst[lo:hi], n, freqs[lo:hi]); return nil })
 	}
-	wg.Wait()
+	_ = g.Wait() // scanRange returns nothing to report
 	return dst
 }
 

@@ -5,9 +5,9 @@ import (
 	"math"
 	"math/cmplx"
 	"runtime"
-	"sync"
 
 	"github.com/mjibson/go-dsp/window"
+	"golang.org/x/sync/errgroup"
 	"gonum.org/v1/gonum/dsp/fourier"
 
 	"github.com/telegrapher/telegrapher/freqscan"
@@ -375,17 +375,13 @@ func parallel(workers, n int, fn func(lo, hi int)) {
 		fn(0, n)
 		return
 	}
-	var wg sync.WaitGroup
+	var g errgroup.Group
 	chunk := (n + workers - 1) / workers
 	for lo := 0; lo < n; lo += chunk {
 		hi := min(n, lo+chunk)
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			fn(lo, hi)
-		}()
+		g.Go(func() error { fn(lo, hi); return nil })
 	}
-	wg.Wait()
+	_ = g.Wait() // fn returns nothing to report
 }
 
 // inv returns 1/z, by conj(z)/|z|² where that cannot overflow or underflow (three

@@ -8,10 +8,10 @@ import (
 	"math/cmplx"
 	"math/rand/v2"
 	"runtime"
-	"sync"
 	"sync/atomic"
 
 	"github.com/telegrapher/telegrapher/freqscan"
+	"golang.org/x/sync/errgroup"
 )
 
 // MaxShots is the largest number of shots a statistical switching study may take.
@@ -788,33 +788,31 @@ func (sim *SwitchingSimulator) RunContext(ctx context.Context, specs []ShotSpec,
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	workers = min(workers, len(specs))
 	out := make([]Shot, len(specs))
 	errs := make([]error, len(specs))
-	var next, done atomic.Int64
+	var done atomic.Int64
 	var failed atomic.Bool
-	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for !failed.Load() {
-				k := int(next.Add(1) - 1)
-				if k >= len(specs) || ctx.Err() != nil {
-					return
-				}
-				if out[k], _, errs[k] = sim.Shot(specs[k], false); errs[k] != nil {
-					failed.Store(true)
-					return
-				}
-				d := done.Add(1)
-				if progress != nil {
-					progress(int(d))
-				}
+	var g errgroup.Group
+	g.SetLimit(max(workers, 1))
+	for k := range specs {
+		if failed.Load() || ctx.Err() != nil {
+			break
+		}
+		g.Go(func() error { // a shot once started runs to its end: the first failed one in order is reported
+			if ctx.Err() != nil {
+				return nil
 			}
-		}()
+			if out[k], _, errs[k] = sim.Shot(specs[k], false); errs[k] != nil {
+				failed.Store(true)
+				return nil
+			}
+			if d := done.Add(1); progress != nil {
+				progress(int(d))
+			}
+			return nil
+		})
 	}
-	wg.Wait()
+	_ = g.Wait() // the shots' errors are in errs, reported in the order drawn
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}

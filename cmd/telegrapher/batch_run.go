@@ -7,6 +7,8 @@ import (
 	"sync"
 	"sync/atomic"
 	"time"
+
+	"golang.org/x/sync/errgroup"
 )
 
 // parallelEach calls work(i) for i in [0, n) on up to workers goroutines (0 = one per
@@ -16,23 +18,7 @@ func parallelEach(n, workers int, tick time.Duration, progress func(done int), w
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	workers = min(workers, n)
-	var next, done atomic.Int64
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				i := int(next.Add(1) - 1)
-				if i >= n {
-					return
-				}
-				work(i)
-				done.Add(1)
-			}
-		}()
-	}
+	var done atomic.Int64
 	stop := make(chan struct{})
 	var pwg sync.WaitGroup
 	if progress != nil {
@@ -51,7 +37,12 @@ func parallelEach(n, workers int, tick time.Duration, progress func(done int), w
 			}
 		}()
 	}
-	wg.Wait()
+	var g errgroup.Group
+	g.SetLimit(max(workers, 1))
+	for i := range n {
+		g.Go(func() error { work(i); done.Add(1); return nil })
+	}
+	_ = g.Wait() // work returns nothing to report
 	close(stop)
 	pwg.Wait()
 	if progress != nil {
