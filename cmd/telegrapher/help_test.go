@@ -70,3 +70,18 @@ func TestCommandListOrder(t *testing.T) {
 		t.Errorf("commands has %d entries, commandList %d", len(commands), len(commandList))
 	}
 }
+
+// A flagged gain reads above its limit, with as many figures as that takes.
+func TestFmtAbove(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		g, limit float64
+		want     string
+	}{
+		{15.84, 2, "15.8"}, {2.0004, 2, "2.0004"}, {2.0449, 2, "2.04"}, {7.0000001, 7, "7.0000001"},
+	} {
+		if got := fmtAbove(tc.g, tc.limit); got != tc.want {
+			t.Errorf("fmtAbove(%g, %g) = %q, want %q", tc.g, tc.limit, got, tc.want)
+		}
+	}
+}

@@ -17,6 +17,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 
 	"gonum.org/v1/plot/vg"
@@ -429,6 +430,22 @@ func fmtGain(g float64) string {
 	return fmt.Sprintf("%.3g", g)
 }
 
+// fmtAbove writes g, known to exceed limit, to three significant figures or as many
+// more as it takes (up to eight) to read above the limit: "2.004 > limit 2", never
+// "2 > limit 2".
+func fmtAbove(g, limit float64) string {
+	if math.IsInf(g, 1) {
+		return "unbounded"
+	}
+	for d := 3; d < 8; d++ {
+		s := strconv.FormatFloat(g, 'g', d, 64)
+		if v, err := strconv.ParseFloat(s, 64); err == nil && v > limit {
+			return s
+		}
+	}
+	return strconv.FormatFloat(g, 'g', 8, 64)
+}
+
 // scanFlags words the screening's flags.
 func scanFlags(sc freqscan.Screening, f0 float64) []string {
 	flags := []string{}
@@ -450,7 +467,7 @@ func scanFlags(sc freqscan.Screening, f0 float64) []string {
 				what = "resonance at " + strings.Join(near, ", ")
 			}
 			flags = append(flags, fmt.Sprintf("h%d%s: gain within ±%.0f %% reaches %s > limit %g; %s",
-				r.Order, seq, sc.WatchBand*100, fmtGain(r.BandGain), sc.GainLimit, what))
+				r.Order, seq, sc.WatchBand*100, fmtAbove(r.BandGain, sc.GainLimit), sc.GainLimit, what))
 		}
 		if r.Exceeds {
 			flags = append(flags, fmt.Sprintf("h%d%s: receiving-end level %s %% (background %.3g %% x gain %s) exceeds the planning level %.3g %%",
