@@ -213,14 +213,17 @@ func halfPower(fn func(float64) float64, pts []Point, vals []float64, i int, fp,
 	return 0, false
 }
 
+// Magnifies reports whether the peak magnifies a harmonic voltage: Gain > 1, or
+// Unbounded. A local maximum of the gain below 1, such as the shallow low-frequency
+// bump of a line between a source and a far system, is a peak but not a resonance
+// that magnifies (common practice, no source).
+func (p Peak) Magnifies() bool { return p.Unbounded || p.Gain > 1 }
+
 // FirstResonance returns the lowest-frequency peak of peaks (as Peaks returns them,
-// by frequency) that magnifies, Gain > 1 (or Unbounded); ok is false when none does.
-// A local maximum of the gain below 1, such as the shallow low-frequency bump of a
-// line between a source and a far system, is a peak but not a resonance that
-// magnifies a harmonic voltage (common practice, no source).
+// by frequency) that magnifies (Peak.Magnifies); ok is false when none does.
 func FirstResonance(peaks []Peak) (p Peak, ok bool) {
 	for _, pk := range peaks {
-		if pk.Unbounded || pk.Gain > 1 {
+		if pk.Magnifies() {
 			return pk, true
 		}
 	}

@@ -578,7 +578,7 @@ func (rr *reportRun) scanSection() (report.Section, error) {
 		sec.Verdict = report.Flagged
 	}
 	// The first resonance and the worst watched harmonic.
-	first := firstResonance(res.Peaks)
+	first := res.firstResonance()
 	var worst *scanHarmonic
 	for i := range res.Harmonics {
 		h := &res.Harmonics[i]

@@ -179,17 +179,15 @@ type scanPoint struct {
 	ZRecvOhm    complex128 `json:"z_receiving_ohm"`
 }
 
-// firstResonance returns the lowest-frequency peak of peaks that magnifies (gain > 1
-// or unbounded), as freqscan.FirstResonance, or nil.
-func firstResonance(peaks []scanPeak) *scanPeak {
-	var first *scanPeak
-	for i := range peaks {
-		p := &peaks[i]
-		if (p.Unbounded || p.Gain > 1) && (first == nil || p.FHz < first.FHz) {
-			first = p
+// firstResonance returns the display peak of the first resonance
+// (freqscan.FirstResonance: the lowest peak that magnifies), or nil.
+func (r *scanResult) firstResonance() *scanPeak {
+	for i, p := range r.posPeaks {
+		if p.Magnifies() {
+			return &r.Peaks[i]
 		}
 	}
-	return first
+	return nil
 }
 
 type scanPeak struct {

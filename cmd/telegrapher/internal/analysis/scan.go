@@ -205,7 +205,7 @@ func firstAbove(n freqscan.Network, pts []freqscan.Point, fLow float64) float64 
 		// The last point of a leading part cannot be a peak of it: only the peaks
 		// before it are final.
 		for _, p := range freqscan.Peaks(n, pts[:k]) {
-			if p.F > fLow && (p.Unbounded || p.Gain > 1) && (k == len(pts) || p.F < pts[k-2].F) {
+			if p.F > fLow && p.Magnifies() && (k == len(pts) || p.F < pts[k-2].F) {
 				return p.F
 			}
 		}
