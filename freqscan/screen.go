@@ -127,6 +127,22 @@ type Screening struct {
 // balanced three-phase system.
 func Triplen(h int) bool { return h%3 == 0 }
 
+// WithDefaults returns s with the settings it leaves at zero set to the defaults
+// Screen uses: GainLimit DefaultGainLimit, WatchBand DefaultWatchBand, Watch
+// DefaultWatch.
+func (s ScreenSettings) WithDefaults() ScreenSettings {
+	if s.GainLimit == 0 {
+		s.GainLimit = DefaultGainLimit
+	}
+	if s.WatchBand == 0 {
+		s.WatchBand = DefaultWatchBand
+	}
+	if s.Watch == nil {
+		s.Watch = DefaultWatch()
+	}
+	return s
+}
+
 // Screen screens every integer harmonic from 1 (the fundamental) to
 // FMax/Fundamental, each at exactly its frequency (not interpolated). Orders that are
 // multiples of 3 are zero sequence in a balanced system and are screened on zero (with
@@ -141,16 +157,8 @@ func Screen(pos Network, posPts []Point, posPeaks []Peak, zero *Network, zeroPts
 	if !(set.Fundamental > 0) {
 		panic("freqscan: Screen needs Fundamental > 0")
 	}
+	set = set.WithDefaults()
 	sc := Screening{GainLimit: set.GainLimit, WatchBand: set.WatchBand, Watch: set.Watch}
-	if sc.GainLimit == 0 {
-		sc.GainLimit = DefaultGainLimit
-	}
-	if sc.WatchBand == 0 {
-		sc.WatchBand = DefaultWatchBand
-	}
-	if sc.Watch == nil {
-		sc.Watch = DefaultWatch()
-	}
 	watched := map[int]bool{}
 	for _, h := range sc.Watch {
 		watched[h] = true

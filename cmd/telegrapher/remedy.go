@@ -229,13 +229,8 @@ func computeRemedyProgress(ctx context.Context, st *study.Study, status *statusL
 
 	// Plot data: the first resonance against the reactor at one end (the other end as
 	// proposed), and u2 against the resistor.
-	res.frequencyHz, res.watch, res.watchBand = st.Frequency, st.Scan.WatchHarmonics, st.Scan.WatchBand
-	if res.watch == nil {
-		res.watch = freqscan.DefaultWatch()
-	}
-	if res.watchBand == 0 {
-		res.watchBand = freqscan.DefaultWatchBand
-	}
+	set := freqscan.ScreenSettings{Watch: st.Scan.WatchHarmonics, WatchBand: st.Scan.WatchBand}.WithDefaults()
+	res.frequencyHz, res.watch, res.watchBand = st.Frequency, set.Watch, set.WatchBand
 	if sw := a.Sweep; sw != nil {
 		res.sweepEnd = sw.End
 		for k, q := range sw.Q {

@@ -170,16 +170,10 @@ func WatchedGain(ctx context.Context, st *study.Study, freqs []float64) (gain, f
 // next to a band: two points beyond each band edge, since a grid maximum just outside
 // may refine to a frequency inside.
 func bandPeaks(n freqscan.Network, pts []freqscan.Point, set freqscan.ScreenSettings) []freqscan.Peak {
-	watch := set.Watch
-	if watch == nil {
-		watch = freqscan.DefaultWatch()
-	}
+	set = set.WithDefaults()
 	band := set.WatchBand
-	if band == 0 {
-		band = freqscan.DefaultWatchBand
-	}
 	var out []freqscan.Peak
-	for _, h := range watch {
+	for _, h := range set.Watch {
 		lo, hi := float64(h)*set.Fundamental*(1-band), float64(h)*set.Fundamental*(1+band)
 		i := sort.Search(len(pts), func(i int) bool { return pts[i].F >= lo })
 		j := sort.Search(len(pts), func(j int) bool { return pts[j].F > hi })
