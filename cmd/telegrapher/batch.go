@@ -24,7 +24,6 @@ import (
 	"os"
 	"sort"
 	"strings"
-	"time"
 
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/analysis"
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/report"
@@ -196,7 +195,7 @@ func sequenceMark(seq string) string {
 func screenInventory(ctx context.Context, file string, lines []batchLine, jobs int, progress func(int)) ([]batchResult, error) {
 	results := make([]batchResult, len(lines))
 	errs := make([]error, len(lines))
-	parallelEach(len(lines), jobs, 200*time.Millisecond, progress, func(i int) {
+	parallelEach(len(lines), jobs, progress, func(i int) {
 		defer func() {
 			if p := recover(); p != nil {
 				errs[i] = fmt.Errorf("%s: row %d: internal error (a bug, please report it): %v", file, lines[i].Row, p)

@@ -87,7 +87,7 @@ func TestParallelEach(t *testing.T) {
 		const n = 100
 		var hits [n]atomic.Int32
 		var last atomic.Int64
-		parallelEach(n, workers, time.Millisecond, func(done int) { last.Store(int64(done)) }, func(i int) {
+		parallelEach(n, workers, func(done int) { last.Store(int64(done)) }, func(i int) {
 			hits[i].Add(1)
 			time.Sleep(50 * time.Microsecond)
 		})

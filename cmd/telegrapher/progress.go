@@ -6,6 +6,7 @@ package main
 
 import (
 	"io"
+	"os"
 	"sync"
 	"time"
 
@@ -109,4 +110,15 @@ func (s *statusLine) clear() {
 		_ = s.bar.Clear()
 		s.bar = nil
 	}
+}
+
+// isTerminal reports whether w is a terminal (a character device), where a progress
+// bar belongs; not a file or a pipe.
+func isTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	info, err := f.Stat()
+	return err == nil && info.Mode()&os.ModeCharDevice != 0
 }
