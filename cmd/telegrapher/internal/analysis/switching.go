@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"sync/atomic"
 
 	"github.com/telegrapher/telegrapher/cmd/telegrapher/internal/study"
 	"github.com/telegrapher/telegrapher/waves"
@@ -188,17 +187,15 @@ func Switching(ctx context.Context, st *study.Study, progress SwitchingProgress)
 		return nil, err
 	}
 	net, ws, arr := SwitchingSetup(st, ml)
-	// Progress counts shots, once per pass: the shots run a second time with the
-	// arresters when the study has them.
-	var done atomic.Int64
+	// Progress counts shots, once per pass (the simulator counts each run from 0): the
+	// shots run a second time with the arresters when the study has them.
 	pass := ""
 	if len(arr) > 0 {
 		pass = "without arresters"
 	}
-	prog := func(int) {
-		if progress != nil {
-			progress(int(done.Add(1)), set.Shots, pass)
-		}
+	var prog func(int)
+	if progress != nil {
+		prog = func(done int) { progress(done, set.Shots, pass) }
 	}
 	res := &SwitchingResult{Shots: set.Shots, Settings: ws, EvalHz: ml.EvalHz,
 		BaseIEC: st.Us * math.Sqrt2 / math.Sqrt(3), BaseEMF: net.EMFPeak}
@@ -213,7 +210,6 @@ func Switching(ctx context.Context, st *study.Study, progress SwitchingProgress)
 	if len(arr) > 0 {
 		net.Arresters = arr
 		pass = "with arresters"
-		done.Store(0)
 		if sim, r, err = simulate(ctx, st, net, ws, prog); err != nil {
 			return nil, err
 		}
