@@ -107,5 +107,5 @@ func noConvergence(file string, err error) error {
 	if !errors.Is(err, waves.ErrNoConvergence) {
 		return err
 	}
-	return &InputError{File: file, Key: "switching.arrester", Msg: err.Error()}
+	return inputf(file, "switching.arrester", "%v", err)
 }
