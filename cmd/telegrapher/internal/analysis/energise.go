@@ -128,15 +128,7 @@ func energiseDuration(st *study.Study, exc waves.Excitation) (float64, string) {
 // of 4000 points from 1 Hz to the larger of 2 kHz and the line's half-wave
 // frequency 1/(2τ); 0, 0 when there is none.
 func lowestResonance(st *study.Study, tau float64) (f, q float64) {
-	net := st.Network.Energising()
-	top := math.Max(2e3, 1/(2*tau))
-	const n = 4000
-	freqs := make([]float64, n)
-	for i := range freqs {
-		freqs[i] = 1 + (top-1)*float64(i)/(n-1)
-	}
-	pts := freqscan.Scan(nil, net, freqs)
-	for _, p := range freqscan.Peaks(net, pts) {
+	for _, p := range energisedPeaks(st, math.Max(2e3, 1/(2*tau)), 4000) {
 		if f == 0 || p.F < f {
 			f, q = p.F, p.Q
 			if p.Unbounded || math.IsInf(p.Q, 0) || math.IsNaN(p.Q) {
@@ -265,15 +257,18 @@ func Energise(st *study.Study, method string) (*EnergiseResult, error) {
 // grid from 1 Hz to the lesser of 10 kHz and the transient's Nyquist frequency, by the
 // scan's own peak finder (freqscan.Peaks).
 func scanResonances(st *study.Study, dt float64) []freqscan.Peak {
+	return energisedPeaks(st, math.Min(10e3, 0.5/dt), 6000)
+}
+
+// energisedPeaks returns the resonance peaks of |Vr/E| of the energised network (far
+// end open) on n frequencies evenly spaced from 1 Hz to top.
+func energisedPeaks(st *study.Study, top float64, n int) []freqscan.Peak {
 	net := st.Network.Energising()
-	top := math.Min(10e3, 0.5/dt)
-	const n = 6000
 	freqs := make([]float64, n)
 	for i := range freqs {
-		freqs[i] = 1 + (top-1)*float64(i)/(n-1)
+		freqs[i] = 1 + (top-1)*float64(i)/float64(n-1)
 	}
-	pts := freqscan.Scan(nil, net, freqs)
-	return freqscan.Peaks(net, pts)
+	return freqscan.Peaks(net, freqscan.Scan(nil, net, freqs))
 }
 
 // transientSpectrum finds the dominant frequencies of the transient v (step dt): the
