@@ -47,10 +47,7 @@ func ControlledShots(s SwitchingSettings, omega float64) []ShotSpec {
 		for k := 0; k < 3; k++ {
 			z := 0.0
 			if s.ControlledSigma > 0 {
-				z = r.NormFloat64()
-				for math.Abs(z) > 3 {
-					z = r.NormFloat64()
-				}
+				z = truncatedNormal(r)
 			}
 			out[i].Offset[k] = t[k] + z*s.ControlledSigma
 		}
@@ -146,10 +143,7 @@ func (sim *SwitchingSimulator) ControlledShots() []ShotSpec {
 			}
 			z := 0.0
 			if s.ControlledSigma > 0 {
-				z = r.NormFloat64()
-				for math.Abs(z) > 3 {
-					z = r.NormFloat64()
-				}
+				z = truncatedNormal(r)
 			}
 			out[i].Offset[k] = float64(best)*dt + z*s.ControlledSigma
 		}

@@ -123,14 +123,20 @@ func DrawShots(s SwitchingSettings) []ShotSpec {
 			if s.PoleSigma == 0 {
 				continue
 			}
-			z := r.NormFloat64()
-			for math.Abs(z) > 3 {
-				z = r.NormFloat64()
-			}
-			out[k].Offset[p] = z * s.PoleSigma
+			out[k].Offset[p] = truncatedNormal(r) * s.PoleSigma
 		}
 	}
 	return out
+}
+
+// truncatedNormal draws a standard normal number truncated at ±3 by rejection: the
+// scatter of a pole's closing instant, in units of its standard deviation.
+func truncatedNormal(r *rand.Rand) float64 {
+	z := r.NormFloat64()
+	for math.Abs(z) > 3 {
+		z = r.NormFloat64()
+	}
+	return z
 }
 
 // ErrSwitching is wrapped by errors about the switching settings or circuit that the
